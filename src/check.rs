@@ -1,0 +1,1 @@
+//! The `check` command: load a project and summarise what was read.

@@ -1,0 +1,1 @@
+//! The fictional demo basin generator.

@@ -1,0 +1,1 @@
+//! Gridding scattered picks onto the survey grid.

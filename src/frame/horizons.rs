@@ -1,0 +1,1 @@
+//! Horizon surfaces, stratigraphic order and zones.

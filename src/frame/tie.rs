@@ -1,0 +1,1 @@
+//! Tying gridded horizons to well tops.

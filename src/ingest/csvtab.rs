@@ -1,0 +1,1 @@
+//! Small helpers for the CSV inputs (well table, surveys, tops).

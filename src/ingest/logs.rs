@@ -1,0 +1,1 @@
+//! Log curves mapped to properties and converted to SI units.

@@ -1,0 +1,1 @@
+//! Horizon picks: scattered x y z points.

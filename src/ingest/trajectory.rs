@@ -1,0 +1,1 @@
+//! Well trajectories by the minimum curvature method.

@@ -1,0 +1,1 @@
+//! Wells: the well table, deviation surveys, tops and positioned log samples.

@@ -1,0 +1,1 @@
+//! The `inspect` command: show what the tool reads from one input file.

@@ -1,0 +1,1 @@
+//! The project file (TOML) that describes one study.
