@@ -1,19 +1,129 @@
 //! The `stratiprior` command line: parses arguments and calls the library.
 
-use clap::{Parser, Subcommand};
+use anyhow::Context;
+use clap::{Parser, Subcommand, ValueEnum};
+use std::io::IsTerminal;
+use std::path::PathBuf;
+use std::process::ExitCode;
 
-/// Spatially varying priors of Vp0, epsilon and delta for anisotropic FWI.
+/// Spatially varying priors of Vp0, Thomsen epsilon and delta for anisotropic FWI,
+/// from sparse wells, interpreted horizons and facies.
 #[derive(Parser, Debug)]
-#[command(name = "stratiprior", version, about)]
+#[command(name = "stratiprior", version, about, long_about = None)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
 }
 
 #[derive(Subcommand, Debug)]
-enum Command {}
+enum Command {
+    /// Load a project and everything it names; print a summary of what was read.
+    Check {
+        /// The project file (TOML).
+        project: PathBuf,
+        /// Print the summary as JSON on standard output.
+        #[arg(long)]
+        json: bool,
+        /// Print nothing but errors (the exit status tells the result).
+        #[arg(long, short, conflicts_with = "json")]
+        quiet: bool,
+    },
+    /// Show what the tool reads from one input file.
+    Inspect {
+        /// The file: LAS, SEG-Y, horizon picks, well table, deviation survey or tops.
+        file: PathBuf,
+        /// The file's kind, when its name does not tell.
+        #[arg(long, value_enum)]
+        kind: Option<KindArg>,
+        /// Print as JSON (for LAS, with every curve's values; nulls as null).
+        #[arg(long)]
+        json: bool,
+    },
+    /// Write the fictional demo basin (wells, horizons, volumes, project file, truth).
+    Demo {
+        /// Folder to write into.
+        #[arg(long)]
+        out: PathBuf,
+        /// Seed of the generator.
+        #[arg(long, default_value_t = stratiprior::demo::DEFAULT_SEED)]
+        seed: u64,
+        /// Print nothing but errors.
+        #[arg(long, short)]
+        quiet: bool,
+    },
+}
 
-fn main() -> anyhow::Result<()> {
-    let _cli = Cli::parse();
+#[derive(Debug, Clone, Copy, ValueEnum)]
+enum KindArg {
+    Las,
+    Segy,
+    Picks,
+    WellTable,
+    Survey,
+    Tops,
+}
+
+impl From<KindArg> for stratiprior::inspect::FileKind {
+    fn from(k: KindArg) -> Self {
+        use stratiprior::inspect::FileKind as F;
+        match k {
+            KindArg::Las => F::Las,
+            KindArg::Segy => F::Segy,
+            KindArg::Picks => F::Picks,
+            KindArg::WellTable => F::WellTable,
+            KindArg::Survey => F::Survey,
+            KindArg::Tops => F::Tops,
+        }
+    }
+}
+
+fn run(cli: Cli) -> anyhow::Result<()> {
+    match cli.command {
+        Command::Check {
+            project,
+            json,
+            quiet,
+        } => {
+            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let report = stratiprior::check::run(&project, progress)?;
+            if json {
+                println!("{}", serde_json::to_string_pretty(&report)?);
+            } else if !quiet {
+                print!("{}", report.render_text());
+            }
+        }
+        Command::Inspect { file, kind, json } => {
+            let ins = stratiprior::inspect::inspect(&file, kind.map(Into::into), json)?;
+            if json {
+                println!("{}", serde_json::to_string_pretty(&ins)?);
+            } else {
+                print!("{}", ins.render_text());
+            }
+        }
+        Command::Demo { out, seed, quiet } => {
+            let report = stratiprior::demo::generate(&stratiprior::demo::DemoOptions {
+                out_dir: out.clone(),
+                seed,
+            })
+            .with_context(|| format!("writing the demo basin into {}", out.display()))?;
+            if !quiet {
+                println!("{}", serde_json::to_string_pretty(&report)?);
+            }
+        }
+    }
     Ok(())
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    match run(cli) {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) => {
+            eprintln!("error: {e}");
+            for cause in e.chain().skip(1) {
+                eprintln!("  caused by: {cause}");
+            }
+            ExitCode::FAILURE
+        }
+    }
 }

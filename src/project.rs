@@ -1,1 +1,756 @@
 //! The project file (TOML) that describes one study.
+//!
+//! A project names the survey grid, the well inputs and how to read their
+//! curves, the horizons in stratigraphic order, the zones between consecutive
+//! horizons, the facies codes, optional input volumes, the output folder and the
+//! seed. The README has a complete annotated example.
+//!
+//! Rules: unknown keys are errors naming the key; relative paths resolve against
+//! the project file's folder; every value a user may get wrong is checked here,
+//! with a message that says what was expected.
+
+use crate::error::{Error, Result};
+use crate::grid::SurveyGrid;
+use serde::{Deserialize, Serialize};
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+/// The project file as written (before paths are resolved and values checked).
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawProject {
+    name: Option<String>,
+    output: Option<PathBuf>,
+    seed: Option<u64>,
+    grid: RawGrid,
+    wells: RawWells,
+    curves: RawCurves,
+    horizons: Vec<RawHorizon>,
+    tie: Option<RawTie>,
+    zones: Vec<RawZone>,
+    #[serde(default)]
+    facies: Vec<FaciesDef>,
+    #[serde(default)]
+    volumes: RawVolumes,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawGrid {
+    x0: f64,
+    y0: f64,
+    azimuth: f64,
+    inline_spacing: f64,
+    xline_spacing: f64,
+    inlines: (i64, i64),
+    xlines: (i64, i64),
+    z: (f64, f64, i64),
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawWells {
+    table: PathBuf,
+    tops: Option<PathBuf>,
+}
+
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawCurves {
+    vp: Option<RawCurve>,
+    vs: Option<RawCurve>,
+    density: Option<RawCurve>,
+    epsilon: Option<RawCurve>,
+    delta: Option<RawCurve>,
+    facies: Option<RawCurve>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawCurve {
+    mnemonics: Vec<String>,
+    unit: Option<String>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawHorizon {
+    name: String,
+    picks: PathBuf,
+    tops_name: Option<String>,
+    #[serde(default)]
+    z_is_elevation: bool,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawTie {
+    radius: f64,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawZone {
+    name: String,
+    top: String,
+    base: String,
+    layering: String,
+    cell_thickness: f64,
+}
+
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawVolumes {
+    background_vp0: Option<RawVolume>,
+    facies: Option<RawVolume>,
+    #[serde(default)]
+    facies_probability: BTreeMap<String, PathBuf>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawVolume {
+    path: PathBuf,
+    unit: Option<String>,
+}
+
+/// A property a log curve can carry.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CurveProperty {
+    /// Compressional velocity or slowness.
+    Vp,
+    /// Shear velocity or slowness.
+    Vs,
+    /// Bulk density.
+    Density,
+    /// Thomsen epsilon.
+    Epsilon,
+    /// Thomsen delta.
+    Delta,
+    /// Facies code.
+    Facies,
+}
+
+impl CurveProperty {
+    /// All properties, in a fixed order.
+    pub const ALL: [CurveProperty; 6] = [
+        CurveProperty::Vp,
+        CurveProperty::Vs,
+        CurveProperty::Density,
+        CurveProperty::Epsilon,
+        CurveProperty::Delta,
+        CurveProperty::Facies,
+    ];
+
+    /// The key used in the project file.
+    pub fn key(self) -> &'static str {
+        match self {
+            CurveProperty::Vp => "vp",
+            CurveProperty::Vs => "vs",
+            CurveProperty::Density => "density",
+            CurveProperty::Epsilon => "epsilon",
+            CurveProperty::Delta => "delta",
+            CurveProperty::Facies => "facies",
+        }
+    }
+}
+
+/// The unit a curve is recorded in, and so how it converts to SI.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CurveUnit {
+    /// Slowness in microseconds per foot: `v = 304800 / DT` m/s.
+    MicrosecondsPerFoot,
+    /// Slowness in microseconds per metre: `v = 1e6 / DT` m/s.
+    MicrosecondsPerMetre,
+    /// Velocity in m/s.
+    MetresPerSecond,
+    /// Velocity in km/s.
+    KilometresPerSecond,
+    /// Velocity in ft/s.
+    FeetPerSecond,
+    /// Density in g/cm3 (x 1000 to kg/m3).
+    GramsPerCubicCentimetre,
+    /// Density in kg/m3.
+    KilogramsPerCubicMetre,
+    /// Dimensionless (epsilon, delta).
+    Dimensionless,
+    /// Integer codes (facies).
+    Code,
+}
+
+impl CurveUnit {
+    /// Parse a unit as written in a project file or a LAS header; `None` if not recognised.
+    ///
+    /// Accepts the spellings common in LAS headers (common practice): `US/F`,
+    /// `US/FT`, `USEC/FT`, `G/C3`, `G/CC`, `K/M3`, ... in any case.
+    pub fn parse(s: &str) -> Option<CurveUnit> {
+        let u: String = s
+            .trim()
+            .to_ascii_lowercase()
+            .chars()
+            .filter(|c| !c.is_whitespace())
+            .collect();
+        Some(match u.as_str() {
+            "us/ft" | "us/f" | "usec/ft" | "usec/f" | "µs/ft" | "microseconds/ft" => {
+                CurveUnit::MicrosecondsPerFoot
+            }
+            "us/m" | "usec/m" | "µs/m" | "microseconds/m" => CurveUnit::MicrosecondsPerMetre,
+            "m/s" | "m/sec" | "mps" => CurveUnit::MetresPerSecond,
+            "km/s" | "km/sec" => CurveUnit::KilometresPerSecond,
+            "ft/s" | "ft/sec" | "f/s" | "fps" => CurveUnit::FeetPerSecond,
+            "g/cm3" | "g/cc" | "g/c3" | "gm/cc" | "g/cm^3" => CurveUnit::GramsPerCubicCentimetre,
+            "kg/m3" | "k/m3" | "kg/m^3" => CurveUnit::KilogramsPerCubicMetre,
+            "1" | "" | "v/v" | "frac" | "fraction" | "dimensionless" | "unitless" | "none" => {
+                CurveUnit::Dimensionless
+            }
+            _ => return None,
+        })
+    }
+
+    /// The units allowed for a property.
+    pub fn allowed_for(p: CurveProperty) -> &'static [CurveUnit] {
+        use CurveUnit::*;
+        match p {
+            CurveProperty::Vp | CurveProperty::Vs => &[
+                MicrosecondsPerFoot,
+                MicrosecondsPerMetre,
+                MetresPerSecond,
+                KilometresPerSecond,
+                FeetPerSecond,
+            ],
+            CurveProperty::Density => &[GramsPerCubicCentimetre, KilogramsPerCubicMetre],
+            CurveProperty::Epsilon | CurveProperty::Delta => &[Dimensionless],
+            CurveProperty::Facies => &[Code],
+        }
+    }
+
+    /// The unit's canonical spelling.
+    pub fn name(self) -> &'static str {
+        match self {
+            CurveUnit::MicrosecondsPerFoot => "us/ft",
+            CurveUnit::MicrosecondsPerMetre => "us/m",
+            CurveUnit::MetresPerSecond => "m/s",
+            CurveUnit::KilometresPerSecond => "km/s",
+            CurveUnit::FeetPerSecond => "ft/s",
+            CurveUnit::GramsPerCubicCentimetre => "g/cm3",
+            CurveUnit::KilogramsPerCubicMetre => "kg/m3",
+            CurveUnit::Dimensionless => "1",
+            CurveUnit::Code => "code",
+        }
+    }
+
+    /// Convert one value in this unit to SI (m/s, kg/m3, dimensionless).
+    ///
+    /// Slowness: `v = 304800 / DT` for us/ft (1 ft = 0.3048 m exactly, design
+    /// overview), `v = 1e6 / DT` for us/m. Returns `None` for a non-positive
+    /// slowness or velocity, which has no physical meaning.
+    pub fn to_si(self, v: f64) -> Option<f64> {
+        match self {
+            CurveUnit::MicrosecondsPerFoot => (v > 0.0).then(|| 304_800.0 / v),
+            CurveUnit::MicrosecondsPerMetre => (v > 0.0).then(|| 1.0e6 / v),
+            CurveUnit::MetresPerSecond => (v > 0.0).then_some(v),
+            CurveUnit::KilometresPerSecond => (v > 0.0).then(|| v * 1000.0),
+            CurveUnit::FeetPerSecond => (v > 0.0).then(|| v * 0.3048),
+            CurveUnit::GramsPerCubicCentimetre => (v > 0.0).then(|| v * 1000.0),
+            CurveUnit::KilogramsPerCubicMetre => (v > 0.0).then_some(v),
+            CurveUnit::Dimensionless | CurveUnit::Code => Some(v),
+        }
+    }
+}
+
+/// How to find one property's curve in the LAS files.
+#[derive(Debug, Clone, Serialize)]
+pub struct CurveSpec {
+    /// The property.
+    pub property: CurveProperty,
+    /// Candidate mnemonics, first match wins (case-insensitive).
+    pub mnemonics: Vec<String>,
+    /// The unit the curve is recorded in.
+    pub unit: CurveUnit,
+}
+
+/// A horizon, in stratigraphic order.
+#[derive(Debug, Clone, Serialize)]
+pub struct HorizonDef {
+    /// Name used in the project.
+    pub name: String,
+    /// The picks file (resolved path).
+    pub picks: PathBuf,
+    /// The surface's name in the tops table.
+    pub tops_name: String,
+    /// Whether the picks' z is elevation (positive up).
+    pub z_is_elevation: bool,
+}
+
+/// How stratigraphic coordinates follow the zone's bounding horizons.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Layering {
+    /// Layers divide the zone proportionally between top and base.
+    Proportional,
+    /// Layers are parallel to the top horizon (onlap onto the base).
+    ParallelToTop,
+    /// Layers are parallel to the base horizon (truncation at the top).
+    ParallelToBase,
+}
+
+impl Layering {
+    /// The project-file spelling.
+    pub fn name(self) -> &'static str {
+        match self {
+            Layering::Proportional => "proportional",
+            Layering::ParallelToTop => "parallel_to_top",
+            Layering::ParallelToBase => "parallel_to_base",
+        }
+    }
+}
+
+/// A zone between two consecutive horizons.
+#[derive(Debug, Clone, Serialize)]
+pub struct ZoneDef {
+    /// Zone name.
+    pub name: String,
+    /// Index of the top horizon in [`Project::horizons`].
+    pub top: usize,
+    /// Index of the base horizon (always `top + 1`).
+    pub base: usize,
+    /// Layering rule.
+    pub layering: Layering,
+    /// Stratigraphic cell thickness, m.
+    pub cell_thickness: f64,
+}
+
+/// A facies code and its name.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FaciesDef {
+    /// Integer code as found in facies curves and volumes.
+    pub code: i32,
+    /// Name.
+    pub name: String,
+}
+
+/// An optional input volume.
+#[derive(Debug, Clone, Serialize)]
+pub struct VolumeDef {
+    /// Resolved path of the SEG-Y file.
+    pub path: PathBuf,
+    /// Unit of the samples.
+    pub unit: String,
+}
+
+/// Optional input volumes on the survey grid.
+#[derive(Debug, Clone, Default, Serialize)]
+pub struct VolumeDefs {
+    /// Background Vp0 (the inversion's starting model), m/s.
+    pub background_vp0: Option<VolumeDef>,
+    /// Facies labels, integer codes stored as floats.
+    pub facies: Option<VolumeDef>,
+    /// Per-facies probability volumes, by facies name.
+    pub facies_probability: BTreeMap<String, PathBuf>,
+}
+
+/// A checked project with resolved paths.
+#[derive(Debug, Clone, Serialize)]
+pub struct Project {
+    /// The project file.
+    pub path: PathBuf,
+    /// Free-text name.
+    pub name: String,
+    /// Output folder (resolved).
+    pub output: PathBuf,
+    /// Seed of every random draw.
+    pub seed: u64,
+    /// The survey grid.
+    pub grid: SurveyGrid,
+    /// Well table CSV.
+    pub well_table: PathBuf,
+    /// Tops CSV, if any.
+    pub tops: Option<PathBuf>,
+    /// Curve mapping, one entry per property present.
+    pub curves: Vec<CurveSpec>,
+    /// Horizons, shallow to deep.
+    pub horizons: Vec<HorizonDef>,
+    /// Distance over which tie corrections fade, m.
+    pub tie_radius: f64,
+    /// Zones, shallow to deep.
+    pub zones: Vec<ZoneDef>,
+    /// Facies codes.
+    pub facies: Vec<FaciesDef>,
+    /// Input volumes.
+    pub volumes: VolumeDefs,
+}
+
+/// Default tie radius when `[tie]` is absent, m.
+pub const DEFAULT_TIE_RADIUS: f64 = 2000.0;
+
+impl Project {
+    /// Read and check a project file.
+    pub fn load(path: &Path) -> Result<Project> {
+        let text = std::fs::read_to_string(path).map_err(|e| Error::io(path, e))?;
+        Project::from_toml(&text, path)
+    }
+
+    /// Parse and check project text; `path` is used for messages and to resolve
+    /// relative paths.
+    pub fn from_toml(text: &str, path: &Path) -> Result<Project> {
+        let raw: RawProject = toml::from_str(text).map_err(|e| {
+            let line = e
+                .span()
+                .map(|s| text[..s.start.min(text.len())].matches('\n').count() + 1);
+            let msg = e.message().to_string();
+            Error::input(path, line, msg)
+        })?;
+        let base = match path.parent() {
+            Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+            _ => PathBuf::from("."),
+        };
+        let resolve = |p: &Path| -> PathBuf {
+            if p.is_absolute() {
+                p.to_path_buf()
+            } else {
+                base.join(p)
+            }
+        };
+        let perr = |msg: String| Error::project(path, msg);
+
+        // grid
+        let g = &raw.grid;
+        let count = |key: &str, n: i64| -> Result<usize> {
+            if n < 2 {
+                return Err(perr(format!(
+                    "grid.{key}: the count (second number) must be at least 2, got {n}"
+                )));
+            }
+            usize::try_from(n).map_err(|_| perr(format!("grid.{key}: count {n} is too large")))
+        };
+        let first = |key: &str, n: i64| -> Result<i32> {
+            i32::try_from(n).map_err(|_| {
+                perr(format!(
+                    "grid.{key}: the first number {n} does not fit a 32-bit line number"
+                ))
+            })
+        };
+        let grid = SurveyGrid {
+            x0: g.x0,
+            y0: g.y0,
+            azimuth: g.azimuth,
+            inline_spacing: g.inline_spacing,
+            xline_spacing: g.xline_spacing,
+            inline_first: first("inlines", g.inlines.0)?,
+            inline_count: count("inlines", g.inlines.1)?,
+            xline_first: first("xlines", g.xlines.0)?,
+            xline_count: count("xlines", g.xlines.1)?,
+            z0: g.z.0,
+            dz: g.z.1,
+            z_count: count("z", g.z.2)?,
+        };
+        grid.validate().map_err(|m| perr(format!("grid: {m}")))?;
+        if i64::from(grid.inline_first) + grid.inline_count as i64 > i64::from(i32::MAX)
+            || i64::from(grid.xline_first) + grid.xline_count as i64 > i64::from(i32::MAX)
+        {
+            return Err(perr("grid: line numbers overflow 32 bits".into()));
+        }
+
+        // curves
+        let mut curves = Vec::new();
+        let c = &raw.curves;
+        for (prop, spec) in [
+            (CurveProperty::Vp, &c.vp),
+            (CurveProperty::Vs, &c.vs),
+            (CurveProperty::Density, &c.density),
+            (CurveProperty::Epsilon, &c.epsilon),
+            (CurveProperty::Delta, &c.delta),
+            (CurveProperty::Facies, &c.facies),
+        ] {
+            let Some(spec) = spec else { continue };
+            let key = prop.key();
+            if spec.mnemonics.is_empty() || spec.mnemonics.iter().any(|m| m.trim().is_empty()) {
+                return Err(perr(format!(
+                    "curves.{key}.mnemonics: expected a list of one or more curve mnemonics, e.g. [\"DT\"]"
+                )));
+            }
+            let unit = if prop == CurveProperty::Facies {
+                match spec.unit.as_deref() {
+                    None => CurveUnit::Code,
+                    Some(u) if u.trim().is_empty() || u.trim() == "code" => CurveUnit::Code,
+                    Some(u) => {
+                        return Err(perr(format!(
+                            "curves.facies.unit: facies curves hold integer codes; leave unit out or write \"code\", got \"{u}\""
+                        )))
+                    }
+                }
+            } else {
+                let allowed = CurveUnit::allowed_for(prop);
+                let names: Vec<&str> = allowed.iter().map(|u| u.name()).collect();
+                let u = spec.unit.as_deref().ok_or_else(|| {
+                    perr(format!(
+                        "curves.{key}: missing unit; expected one of {}",
+                        names.join(", ")
+                    ))
+                })?;
+                match CurveUnit::parse(u) {
+                    Some(cu) if allowed.contains(&cu) => cu,
+                    _ => {
+                        return Err(perr(format!(
+                            "curves.{key}.unit: \"{u}\" is not a unit for {key}; expected one of {}",
+                            names.join(", ")
+                        )))
+                    }
+                }
+            };
+            curves.push(CurveSpec {
+                property: prop,
+                mnemonics: spec.mnemonics.iter().map(|m| m.trim().to_string()).collect(),
+                unit,
+            });
+        }
+        let has = |p: CurveProperty| curves.iter().any(|c| c.property == p);
+        if !has(CurveProperty::Vp) {
+            return Err(perr(
+                "curves.vp: a compressional sonic or velocity curve is required".into(),
+            ));
+        }
+
+        // horizons
+        if raw.horizons.len() < 2 {
+            return Err(perr(format!(
+                "horizons: at least two [[horizons]] are needed to bound a zone, got {}",
+                raw.horizons.len()
+            )));
+        }
+        let mut horizons: Vec<HorizonDef> = Vec::new();
+        for (k, h) in raw.horizons.iter().enumerate() {
+            let name = h.name.trim().to_string();
+            if name.is_empty() {
+                return Err(perr(format!("horizons[{k}].name: must not be empty")));
+            }
+            if horizons.iter().any(|o| o.name == name) {
+                return Err(perr(format!(
+                    "horizons[{k}].name: horizon \"{name}\" is defined twice"
+                )));
+            }
+            horizons.push(HorizonDef {
+                tops_name: h
+                    .tops_name
+                    .as_deref()
+                    .map(|s| s.trim().to_string())
+                    .unwrap_or_else(|| name.clone()),
+                name,
+                picks: resolve(&h.picks),
+                z_is_elevation: h.z_is_elevation,
+            });
+        }
+
+        // zones
+        let horizon_index = |key: &str, n: &str| -> Result<usize> {
+            horizons
+                .iter()
+                .position(|h| h.name == n.trim())
+                .ok_or_else(|| {
+                    perr(format!(
+                        "{key}: no horizon named \"{n}\"; horizons are {}",
+                        horizons
+                            .iter()
+                            .map(|h| format!("\"{}\"", h.name))
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ))
+                })
+        };
+        let mut zones: Vec<ZoneDef> = Vec::new();
+        for (k, z) in raw.zones.iter().enumerate() {
+            let name = z.name.trim().to_string();
+            if name.is_empty() {
+                return Err(perr(format!("zones[{k}].name: must not be empty")));
+            }
+            if zones.iter().any(|o| o.name == name) {
+                return Err(perr(format!("zones[{k}]: zone \"{name}\" is defined twice")));
+            }
+            let top = horizon_index(&format!("zones[{k}].top"), &z.top)?;
+            let base = horizon_index(&format!("zones[{k}].base"), &z.base)?;
+            if base != top + 1 {
+                return Err(perr(format!(
+                    "zones[{k}] (\"{name}\"): top \"{}\" and base \"{}\" must be consecutive horizons in the [[horizons]] order (shallow to deep)",
+                    z.top, z.base
+                )));
+            }
+            let layering = match z.layering.trim() {
+                "proportional" => Layering::Proportional,
+                "parallel_to_top" => Layering::ParallelToTop,
+                "parallel_to_base" => Layering::ParallelToBase,
+                other => {
+                    return Err(perr(format!(
+                        "zones[{k}].layering: \"{other}\" is not a layering rule; expected proportional, parallel_to_top or parallel_to_base"
+                    )))
+                }
+            };
+            if !(z.cell_thickness.is_finite() && z.cell_thickness > 0.0) {
+                return Err(perr(format!(
+                    "zones[{k}].cell_thickness: expected a positive thickness in metres, got {}",
+                    z.cell_thickness
+                )));
+            }
+            zones.push(ZoneDef {
+                name,
+                top,
+                base,
+                layering,
+                cell_thickness: z.cell_thickness,
+            });
+        }
+        if zones.is_empty() {
+            return Err(perr(
+                "zones: at least one [[zones]] entry is needed".into(),
+            ));
+        }
+        zones.sort_by_key(|z| z.top);
+        for w in zones.windows(2) {
+            if w[0].top == w[1].top {
+                return Err(perr(format!(
+                    "zones \"{}\" and \"{}\" share the top horizon \"{}\"",
+                    w[0].name, w[1].name, horizons[w[0].top].name
+                )));
+            }
+        }
+
+        // facies
+        let mut facies: Vec<FaciesDef> = Vec::new();
+        for (k, f) in raw.facies.iter().enumerate() {
+            if f.name.trim().is_empty() {
+                return Err(perr(format!("facies[{k}].name: must not be empty")));
+            }
+            if facies.iter().any(|o| o.code == f.code) {
+                return Err(perr(format!(
+                    "facies[{k}]: code {} is defined twice",
+                    f.code
+                )));
+            }
+            if facies.iter().any(|o| o.name == f.name.trim()) {
+                return Err(perr(format!(
+                    "facies[{k}]: name \"{}\" is defined twice",
+                    f.name
+                )));
+            }
+            facies.push(FaciesDef {
+                code: f.code,
+                name: f.name.trim().to_string(),
+            });
+        }
+        if has(CurveProperty::Facies) && facies.is_empty() {
+            return Err(perr(
+                "curves.facies is set but no [[facies]] codes are defined".into(),
+            ));
+        }
+
+        // tie
+        let tie_radius = match &raw.tie {
+            Some(t) if !(t.radius.is_finite() && t.radius > 0.0) => {
+                return Err(perr(format!(
+                    "tie.radius: expected a positive distance in metres, got {}",
+                    t.radius
+                )))
+            }
+            Some(t) => t.radius,
+            None => DEFAULT_TIE_RADIUS,
+        };
+
+        // volumes
+        let v = &raw.volumes;
+        let background_vp0 = match &v.background_vp0 {
+            None => None,
+            Some(b) => {
+                let unit = b.unit.clone().unwrap_or_else(|| "m/s".into());
+                match CurveUnit::parse(&unit) {
+                    Some(CurveUnit::MetresPerSecond) => {}
+                    _ => {
+                        return Err(perr(format!(
+                            "volumes.background_vp0.unit: expected \"m/s\", got \"{unit}\""
+                        )))
+                    }
+                }
+                Some(VolumeDef {
+                    path: resolve(&b.path),
+                    unit: "m/s".into(),
+                })
+            }
+        };
+        let facies_vol = match &v.facies {
+            None => None,
+            Some(f) => {
+                if let Some(u) = &f.unit {
+                    if u.trim() != "code" && !u.trim().is_empty() {
+                        return Err(perr(format!(
+                            "volumes.facies.unit: a facies volume holds codes; leave unit out, got \"{u}\""
+                        )));
+                    }
+                }
+                if facies.is_empty() {
+                    return Err(perr(
+                        "volumes.facies is set but no [[facies]] codes are defined".into(),
+                    ));
+                }
+                Some(VolumeDef {
+                    path: resolve(&f.path),
+                    unit: "code".into(),
+                })
+            }
+        };
+        let mut facies_probability = BTreeMap::new();
+        for (name, p) in &v.facies_probability {
+            if !facies.iter().any(|f| &f.name == name) {
+                return Err(perr(format!(
+                    "volumes.facies_probability: \"{name}\" is not a facies name; facies are {}",
+                    facies
+                        .iter()
+                        .map(|f| format!("\"{}\"", f.name))
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                )));
+            }
+            facies_probability.insert(name.clone(), resolve(p));
+        }
+
+        Ok(Project {
+            path: path.to_path_buf(),
+            name: raw.name.unwrap_or_else(|| {
+                path.file_stem()
+                    .map(|s| s.to_string_lossy().into_owned())
+                    .unwrap_or_default()
+            }),
+            output: resolve(&raw.output.unwrap_or_else(|| PathBuf::from("out"))),
+            seed: raw.seed.unwrap_or(0),
+            grid,
+            well_table: resolve(&raw.wells.table),
+            tops: raw.wells.tops.as_deref().map(resolve),
+            curves,
+            horizons,
+            tie_radius,
+            zones,
+            facies,
+            volumes: VolumeDefs {
+                background_vp0,
+                facies: facies_vol,
+                facies_probability,
+            },
+        })
+    }
+
+    /// The curve mapping of a property, if the project has one.
+    pub fn curve(&self, p: CurveProperty) -> Option<&CurveSpec> {
+        self.curves.iter().find(|c| c.property == p)
+    }
+
+    /// Every input file the project names (used to refuse overwriting inputs).
+    pub fn input_paths(&self) -> Vec<PathBuf> {
+        let mut v = vec![self.path.clone(), self.well_table.clone()];
+        v.extend(self.tops.clone());
+        v.extend(self.horizons.iter().map(|h| h.picks.clone()));
+        v.extend(self.volumes.background_vp0.iter().map(|b| b.path.clone()));
+        v.extend(self.volumes.facies.iter().map(|b| b.path.clone()));
+        v.extend(self.volumes.facies_probability.values().cloned());
+        v
+    }
+}
