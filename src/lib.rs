@@ -25,6 +25,7 @@ pub mod ingest;
 pub mod inspect;
 pub mod io_util;
 pub mod project;
+pub mod study;
 pub mod units;
 
 pub use error::{Error, Result};

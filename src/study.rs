@@ -1,0 +1,389 @@
+//! A study: the project and everything it names, loaded, checked and put
+//! together (wells positioned in the survey, horizons gridded, tied to the tops
+//! and put in stratigraphic order, input volumes checked against the grid).
+//!
+//! This is the common front of every command: `check` summarises it, later
+//! stages (conditioning, kriging, banks, validation) start from it.
+
+use crate::error::{Error, Result};
+use crate::formats::las::{read_las, LasFile};
+use crate::formats::segy::read_volume_on_grid;
+use crate::frame::gridding::{grid_picks, GriddingReport, Surface};
+use crate::frame::horizons::{enforce_order, CrossingReport};
+use crate::frame::tie::{tie_surface, TiePoint, TieReport};
+use crate::ingest::logs::{map_curves, FileCurve, PropertyLog};
+use crate::ingest::picks::read_picks;
+use crate::ingest::trajectory::Trajectory;
+use crate::ingest::wells::{read_survey, read_tops, read_well_table, WellEntry, WellPath, WellPoint};
+use crate::project::{CurveProperty, HorizonDef, Project};
+use indicatif::{ProgressBar, ProgressStyle};
+use serde::Serialize;
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+/// A top of a well on one of the project's horizons.
+#[derive(Debug, Clone, Serialize)]
+pub struct WellTop {
+    /// Index of the horizon in the project.
+    pub horizon: usize,
+    /// Measured depth, m.
+    pub md: f64,
+    /// Where the well path is at that depth.
+    pub point: WellPoint,
+}
+
+/// A well with its path, its logs in SI and the position of every log sample.
+#[derive(Debug, Clone, Serialize)]
+pub struct Well {
+    /// The row of the well table.
+    pub entry: WellEntry,
+    /// LAS version of its log file.
+    pub las_version: String,
+    /// All curve mnemonics of the LAS file (with units), for the summary.
+    pub las_curves: Vec<(String, String)>,
+    /// Surface location, datum and trajectory.
+    pub path: WellPath,
+    /// Measured depth of each log sample, m.
+    pub md: Vec<f64>,
+    /// Position of each log sample.
+    pub points: Vec<WellPoint>,
+    /// Mapped property logs in SI.
+    pub logs: BTreeMap<CurveProperty, PropertyLog>,
+    /// Tops on the project's horizons.
+    pub tops: Vec<WellTop>,
+}
+
+impl Well {
+    /// The well's name.
+    pub fn name(&self) -> &str {
+        &self.entry.name
+    }
+}
+
+/// A horizon gridded on the survey and tied to the tops.
+#[derive(Debug, Clone, Serialize)]
+pub struct Horizon {
+    /// Its definition in the project.
+    pub def: HorizonDef,
+    /// The final surface (gridded, tied, in stratigraphic order).
+    #[serde(skip)]
+    pub surface: Surface,
+    /// How the picks were gridded.
+    pub gridding: GriddingReport,
+    /// The tie to the well tops, if the horizon has tops.
+    pub tie: Option<TieReport>,
+}
+
+/// An input volume read and checked against the grid.
+#[derive(Debug, Clone, Serialize)]
+pub struct InputVolume {
+    /// What it is (`background_vp0`, `facies`, `facies_probability:<name>`).
+    pub role: String,
+    /// The file.
+    pub path: PathBuf,
+    /// Unit of the samples.
+    pub unit: String,
+    /// Samples, trace-major (inline by inline, crossline fastest, depth fastest of all).
+    #[serde(skip)]
+    pub data: Vec<f32>,
+}
+
+/// Everything a project names, loaded and checked.
+#[derive(Debug, Clone, Serialize)]
+pub struct Study {
+    /// The project.
+    pub project: Project,
+    /// Wells, in table order.
+    pub wells: Vec<Well>,
+    /// Horizons, shallow to deep.
+    pub horizons: Vec<Horizon>,
+    /// Where consecutive horizons crossed and were clipped.
+    pub crossings: Vec<CrossingReport>,
+    /// Input volumes.
+    pub volumes: Vec<InputVolume>,
+    /// Things worth a look that did not stop loading.
+    pub warnings: Vec<String>,
+}
+
+fn progress_bar(show: bool, len: u64) -> ProgressBar {
+    if !show {
+        return ProgressBar::hidden();
+    }
+    let pb = ProgressBar::new(len);
+    if let Ok(style) = ProgressStyle::with_template("{spinner} {pos}/{len} {wide_msg}") {
+        pb.set_style(style);
+    }
+    pb
+}
+
+/// Read one well's LAS and survey, map its curves and position its samples.
+fn load_well(project: &Project, entry: &WellEntry, warnings: &mut Vec<String>) -> Result<Well> {
+    let las: LasFile = read_las(&entry.las)?;
+    let trajectory = match &entry.survey {
+        Some(s) => read_survey(s)?,
+        None => Trajectory::vertical(),
+    };
+    let path = WellPath {
+        x: entry.x,
+        y: entry.y,
+        datum_elevation: entry.datum_elevation,
+        trajectory,
+    };
+    let to_m = las.index_unit_to_metres()?;
+    let index = las.index();
+    let mut md = Vec::with_capacity(index.data.len());
+    for (k, d) in index.data.iter().enumerate() {
+        match d {
+            Some(d) => md.push(d * to_m),
+            None => {
+                return Err(Error::input(
+                    &entry.las,
+                    None,
+                    format!("depth sample {} of the index curve is null", k + 1),
+                ))
+            }
+        }
+    }
+    let file_curves: Vec<FileCurve<'_>> = las
+        .curves
+        .iter()
+        .skip(1)
+        .map(|c| FileCurve {
+            mnemonic: &c.mnemonic,
+            unit: &c.unit,
+            values: &c.data,
+        })
+        .collect();
+    let (logs, w) = map_curves(
+        &entry.name,
+        &entry.las,
+        &file_curves,
+        &project.curves,
+        &project.facies,
+        &md,
+    )?;
+    warnings.extend(w);
+    let points: Vec<WellPoint> = md.iter().map(|&m| path.point_at_md(m)).collect();
+    Ok(Well {
+        entry: entry.clone(),
+        las_version: las.version.clone(),
+        las_curves: las
+            .curves
+            .iter()
+            .map(|c| (c.mnemonic.clone(), c.unit.clone()))
+            .collect(),
+        path,
+        md,
+        points,
+        logs,
+        tops: Vec::new(),
+    })
+}
+
+/// Load a project file and everything it names.
+///
+/// `progress` shows a progress bar on standard error (callers pass `true` only
+/// on a terminal).
+pub fn load(project_path: &Path, progress: bool) -> Result<Study> {
+    let project = Project::load(project_path)?;
+    let grid = &project.grid;
+    let mut warnings = Vec::new();
+
+    let entries = read_well_table(&project.well_table)?;
+    let pb = progress_bar(
+        progress,
+        (entries.len() + project.horizons.len() + 2) as u64,
+    );
+    let mut wells = Vec::with_capacity(entries.len());
+    for e in &entries {
+        pb.set_message(format!("well {}", e.name));
+        let w = load_well(&project, e, &mut warnings)?;
+        // A well must reach the survey with its logged samples.
+        let vp = w.logs.get(&CurveProperty::Vp);
+        let logged_inside = w
+            .points
+            .iter()
+            .enumerate()
+            .filter(|(k, p)| {
+                vp.is_some_and(|l| l.values.get(*k).copied().flatten().is_some())
+                    && grid.contains_xy(p.x, p.y)
+            })
+            .count();
+        if logged_inside == 0 {
+            let (i, j) = grid.xy_to_ij(e.x, e.y);
+            return Err(Error::inconsistent(format!(
+                "well {} ({} line {}): no logged sample lies inside the survey grid (surface location x {:.1}, y {:.1} is at inline index {:.1}, crossline index {:.1}; the grid has {} x {} nodes)",
+                e.name,
+                project.well_table.display(),
+                e.line,
+                e.x,
+                e.y,
+                i,
+                j,
+                grid.inline_count,
+                grid.xline_count
+            )));
+        }
+        wells.push(w);
+        pb.inc(1);
+    }
+
+    // tops
+    if let Some(tops_path) = &project.tops {
+        let tops = read_tops(tops_path)?;
+        for t in &tops {
+            let Some(w) = wells.iter_mut().find(|w| w.entry.name == t.well) else {
+                warnings.push(format!(
+                    "{}:{}: top of well \"{}\" ignored: the well is not in the well table",
+                    tops_path.display(),
+                    t.line,
+                    t.well
+                ));
+                continue;
+            };
+            let Some(h) = project.horizons.iter().position(|h| h.tops_name == t.surface) else {
+                warnings.push(format!(
+                    "{}:{}: top \"{}\" of well {} ignored: no horizon has this tops_name",
+                    tops_path.display(),
+                    t.line,
+                    t.surface,
+                    t.well
+                ));
+                continue;
+            };
+            let point = w.path.point_at_md(t.md);
+            w.tops.push(WellTop {
+                horizon: h,
+                md: t.md,
+                point,
+            });
+        }
+        for w in &mut wells {
+            w.tops.sort_by_key(|t| t.horizon);
+            for pair in w.tops.windows(2) {
+                if pair[1].md < pair[0].md {
+                    return Err(Error::inconsistent(format!(
+                        "well {}: top \"{}\" at MD {:.2} m is above top \"{}\" at MD {:.2} m, against the [[horizons]] order",
+                        w.entry.name,
+                        project.horizons[pair[1].horizon].tops_name,
+                        pair[1].md,
+                        project.horizons[pair[0].horizon].tops_name,
+                        pair[0].md
+                    )));
+                }
+            }
+        }
+    } else {
+        warnings.push("no tops file: horizons are not tied to the wells".into());
+    }
+
+    // horizons
+    let mut horizons = Vec::with_capacity(project.horizons.len());
+    for (hi, def) in project.horizons.iter().enumerate() {
+        pb.set_message(format!("horizon {}", def.name));
+        let picks = read_picks(&def.picks, def.z_is_elevation)?;
+        warnings.extend(picks.warnings.iter().cloned());
+        let (mut surface, gridding) = grid_picks(&def.name, &picks, grid)?;
+        let ties: Vec<TiePoint> = wells
+            .iter()
+            .flat_map(|w| {
+                w.tops.iter().filter(|t| t.horizon == hi).map(|t| TiePoint {
+                    well: w.entry.name.clone(),
+                    x: t.point.x,
+                    y: t.point.y,
+                    z: t.point.z,
+                })
+            })
+            .collect();
+        let tie = if ties.is_empty() {
+            warnings.push(format!("horizon {}: no well tops, not tied", def.name));
+            None
+        } else {
+            Some(tie_surface(&mut surface, grid, &ties, project.tie_radius)?)
+        };
+        horizons.push(Horizon {
+            def: def.clone(),
+            surface,
+            gridding,
+            tie,
+        });
+        pb.inc(1);
+    }
+    let mut surfaces: Vec<Surface> = horizons.iter().map(|h| h.surface.clone()).collect();
+    let crossings = enforce_order(&mut surfaces, grid);
+    for (h, s) in horizons.iter_mut().zip(surfaces) {
+        h.surface = s;
+    }
+    pb.inc(1);
+
+    // volumes
+    let mut volumes = Vec::new();
+    let v = &project.volumes;
+    let mut named: Vec<(String, PathBuf, String)> = Vec::new();
+    if let Some(b) = &v.background_vp0 {
+        named.push(("background_vp0".into(), b.path.clone(), b.unit.clone()));
+    }
+    if let Some(f) = &v.facies {
+        named.push(("facies".into(), f.path.clone(), "code".into()));
+    }
+    for (name, p) in &v.facies_probability {
+        named.push((format!("facies_probability:{name}"), p.clone(), "1".into()));
+    }
+    for (role, path, unit) in named {
+        pb.set_message(format!("volume {role}"));
+        let data = read_volume_on_grid(&path, grid)?;
+        check_volume_values(&project, &role, &path, &data)?;
+        volumes.push(InputVolume {
+            role,
+            path,
+            unit,
+            data,
+        });
+    }
+    pb.inc(1);
+    pb.finish_and_clear();
+
+    Ok(Study {
+        project,
+        wells,
+        horizons,
+        crossings,
+        volumes,
+        warnings,
+    })
+}
+
+/// Values of an input volume must make sense for its role: finite, facies codes
+/// among the defined codes, probabilities within 0..1, velocities plausible.
+fn check_volume_values(project: &Project, role: &str, path: &Path, data: &[f32]) -> Result<()> {
+    let bad = |k: usize, v: f32, what: &str| {
+        let g = &project.grid;
+        let trace = k / g.z_count;
+        let (i, j) = (trace / g.xline_count, trace % g.xline_count);
+        Error::input(
+            path,
+            None,
+            format!(
+                "{role}: sample {v} at inline {}, crossline {}, z {:.1} m is {what}",
+                g.inline_number(i),
+                g.xline_number(j),
+                g.z_at(k % g.z_count)
+            ),
+        )
+    };
+    for (k, &v) in data.iter().enumerate() {
+        if !v.is_finite() {
+            return Err(bad(k, v, "not a finite number"));
+        }
+        if role == "facies" && !project.facies.iter().any(|f| f.code as f32 == v) {
+            return Err(bad(k, v, "not one of the [[facies]] codes"));
+        }
+        if role.starts_with("facies_probability") && !(0.0..=1.0).contains(&v) {
+            return Err(bad(k, v, "not a probability in 0..1"));
+        }
+        if role == "background_vp0" && !(500.0..=10000.0).contains(&v) {
+            return Err(bad(k, v, "not a plausible Vp0 in m/s (500..10000)"));
+        }
+    }
+    Ok(())
+}
