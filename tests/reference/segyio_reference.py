@@ -162,7 +162,7 @@ FILES = [
     ("segyio_ieee_le_xl_sorted", dict(fmt=5, ilines=[1, 2, 3], xlines=[101, 102], ns=5,
                                       dt_us=4000, delrt=-40, scalar=10,
                                       origin=(300000.0, 5000000.0), step=(50.0, 30.0),
-                                      az_deg=120.0, endian="little",
+                                      az_deg=90.0, endian="little",
                                       sorting=segyio.TraceSortingFormat.CROSSLINE_SORTING,
                                       ext_text="extended textual header card", seed=12)),
     ("segyio_int32", dict(fmt=2, ilines=[1, 2], xlines=[1, 2], ns=4, dt_us=1000, delrt=0,

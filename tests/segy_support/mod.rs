@@ -137,3 +137,27 @@ pub fn test_values(n: usize, seed: u64) -> Vec<f32> {
         })
         .collect()
 }
+
+/// Byte offset of 1-based header position `pos` in trace `n` (0-based) of a
+/// file with `nz` float32 samples per trace and no extended headers
+/// (SEG-Y rev 1 layout: 3600 header bytes, then 240 + 4 * nz per trace).
+pub fn trace_offset(n: usize, nz: usize, pos: usize) -> usize {
+    3600 + n * (240 + 4 * nz) + pos - 1
+}
+
+/// Overwrite a big-endian i32 at 1-based position `pos` of trace `n`.
+pub fn patch_i32(bytes: &mut [u8], n: usize, nz: usize, pos: usize, v: i32) {
+    let o = trace_offset(n, nz, pos);
+    bytes[o..o + 4].copy_from_slice(&v.to_be_bytes());
+}
+
+/// Overwrite a big-endian i16 at 1-based position `pos` of trace `n`.
+pub fn patch_i16(bytes: &mut [u8], n: usize, nz: usize, pos: usize, v: i16) {
+    let o = trace_offset(n, nz, pos);
+    bytes[o..o + 2].copy_from_slice(&v.to_be_bytes());
+}
+
+/// Overwrite a big-endian i16 at 1-based file position `pos` (binary header).
+pub fn patch_bin_i16(bytes: &mut [u8], pos: usize, v: i16) {
+    bytes[pos - 1..pos + 1].copy_from_slice(&v.to_be_bytes());
+}

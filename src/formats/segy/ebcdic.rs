@@ -79,7 +79,6 @@ pub(crate) const CP037: [char; 256] = [
 ];
 
 /// Decode one EBCDIC (code page 037) byte; control characters become a space.
-#[allow(dead_code)] // used by the reader (next commit)
 pub(crate) fn decode_ebcdic(b: u8) -> char {
     let c = CP037[b as usize];
     if c.is_control() {
@@ -90,7 +89,6 @@ pub(crate) fn decode_ebcdic(b: u8) -> char {
 }
 
 /// Decode one ASCII / Latin-1 byte; control characters become a space.
-#[allow(dead_code)] // used by the reader (next commit)
 pub(crate) fn decode_ascii(b: u8) -> char {
     let c = char::from(b);
     if c.is_control() {
@@ -129,7 +127,6 @@ pub(crate) fn encode_text_char(c: char) -> u8 {
 /// Common practice: a rev 1 header starts with `C` (0xC3 in EBCDIC, 0x43 in
 /// ASCII). Otherwise we count bytes that decode to printable ASCII under each
 /// interpretation, and EBCDIC spaces (0x40) against ASCII spaces (0x20).
-#[allow(dead_code)] // used by the reader (next commit)
 pub(crate) fn looks_like_ebcdic(bytes: &[u8]) -> bool {
     match bytes.first() {
         Some(0xC3) => return true,

@@ -17,13 +17,31 @@
 //! **metres**, so a reader that reports samples in milliseconds shows depth in
 //! metres.
 //!
+//! # Reading
+//!
+//! [`read_segy`] reads any reasonable SEG-Y file (rev 0/1, either byte order,
+//! IBM or IEEE floats or integers); [`SegyReader`] streams it trace by trace;
+//! [`read_volume_on_grid`] checks a file against the survey grid and says
+//! exactly what differs; [`summarize`] and [`infer_grid`] serve `inspect`.
+//!
 //! Byte positions in this module's docs are 1-based as in the SEG-Y standard
 //! (SEG-Y rev 1, SEG Technical Standards Committee, 2002); offsets in code are
 //! 0-based (`position - 1`).
 
 mod ebcdic;
+mod geometry;
+mod reader;
+mod summary;
 mod writer;
 
+pub use geometry::{
+    coord_tolerance, infer_grid, read_volume_on_grid, COORD_TOLERANCE_FRACTION, COORD_TOLERANCE_MIN,
+};
+pub use reader::{
+    apply_coord_scalar, ibm_to_f32, read_segy, BinaryHeader, ByteOrder, SampleFormat, SegyFile,
+    SegyHeaders, SegyReader, TextEncoding, TraceHeader,
+};
+pub use summary::{summarize, CornerTrace, SegySummary};
 pub use writer::{textual_header_lines, write_volume, SegyWriter};
 
 /// What a volume holds; written into the textual header.
