@@ -234,7 +234,7 @@ fn read_on_grid<R: Read + Seek>(mut r: SegyReader<R>, grid: &SurveyGrid) -> Resu
         };
         diffs.push(format!(
             "{s}; {far_count} traces farther than the tolerance {tol:.3} m (1% of the \
-             smaller grid spacing), largest {far_max:.2} m{feet}"
+             smaller grid spacing, at least 0.01 m), largest {far_max:.2} m{feet}"
         ));
     }
     if !diffs.is_empty() {
