@@ -110,18 +110,27 @@ impl<'a> Matcher<'a> {
     /// Match `unit value [: descr]` from position `r` (just after the dot that
     /// ends the mnemonic). Returns (unit_end, value_end, descr_start) where the
     /// unit is `r..unit_end`, the value `unit_end..value_end`.
-    fn rest(&self, r: usize, rule: ValueRule) -> Option<(usize, usize, Option<usize>)> {
+    fn rest(
+        &self,
+        r: usize,
+        with_unit: bool,
+        rule: ValueRule,
+    ) -> Option<(usize, usize, Option<usize>)> {
         let n = self.c.len();
         // `(?P<unit>([0-9]+\s)?[^\s]*)`: try with the digits-and-space group, then without.
         let d = self.digit_run.get(r).copied().unwrap_or(0);
         let mut groups = Vec::with_capacity(2);
-        if d > 0 && self.c.get(r + d).is_some_and(|&x| is_ws(x)) {
+        if with_unit && d > 0 && self.c.get(r + d).is_some_and(|&x| is_ws(x)) {
             groups.push(d + 1);
         }
         groups.push(0);
         for g in groups {
             let us = r + g;
-            let l_max = self.nonws_run.get(us).copied().unwrap_or(0);
+            let l_max = if with_unit {
+                self.nonws_run.get(us).copied().unwrap_or(0)
+            } else {
+                0
+            };
             let u_max = us + l_max;
             match rule {
                 ValueRule::Rest => return Some((u_max, n, None)),
@@ -177,19 +186,12 @@ pub(crate) fn split_line(line: &str, kind: LineKind) -> Option<Fields> {
             no_dot,
         }
     };
-    if let Some(fc) = first_colon {
-        if !c[..fc].contains(&'.') {
-            // `(?P<name>[^:]*):(?P<value>.*)`
-            return Some(finish(
-                s(&c, 0, fc),
-                String::new(),
-                s(&c, fc + 1, n),
-                String::new(),
-                true,
-            ));
-        }
-    }
-    // Mnemonic-with-dots rule for ~C.
+    // lasio's `configure_metadata_patterns`, in its order: a line with a
+    // colon but no dot before it has no unit and no description (the name runs
+    // to the first colon, the value is the rest); a line without colon has no
+    // description; in ~C a `..` switches to the mnemonic-with-dots rule.
+    let no_dot = first_colon.is_some_and(|fc| !c[..fc].contains(&'.'));
+    let last_colon = c.iter().rposition(|&x| x == ':');
     let dots_name = kind == LineKind::Curves
         && match first_colon {
             None => line.contains(".."),
@@ -197,23 +199,20 @@ pub(crate) fn split_line(line: &str, kind: LineKind) -> Option<Fields> {
                 let has = (0..n.saturating_sub(2))
                     .any(|i| c[i] != ' ' && c[i + 1] == '.' && c[i + 2] == '.');
                 let dd = (0..n.saturating_sub(1)).find(|&i| c[i] == '.' && c[i + 1] == '.');
-                has && match (dd, c.iter().rposition(|&x| x == ':')) {
-                    (Some(a), Some(b)) => a < b,
-                    _ => false,
-                }
+                has && matches!((dd, last_colon), (Some(a), Some(b)) if a < b)
             }
         };
     // Name candidates in the regex's priority order: (name_start, name_end, rest_start).
     let mut names: Vec<(usize, usize, usize)> = Vec::new();
-    let starts: Vec<usize> = if c.first() == Some(&'.') {
-        vec![1, 0]
-    } else {
-        vec![0]
-    };
-    for st in starts {
-        if dots_name {
-            // `(?P<name>[^.].*[.])\.`: first char not a dot, name ends with a dot
-            // followed by another dot; longest first.
+    if dots_name {
+        // `\.?(?P<name>[^.].*[.])\.`: first char not a dot, the name ends with a
+        // dot followed by another dot; longest first.
+        let starts: &[usize] = if c.first() == Some(&'.') {
+            &[1, 0]
+        } else {
+            &[0]
+        };
+        for &st in starts {
             if c.get(st).is_some_and(|&x| x != '.') {
                 let mut k = n;
                 while k > st + 1 {
@@ -223,25 +222,40 @@ pub(crate) fn split_line(line: &str, kind: LineKind) -> Option<Fields> {
                     }
                 }
             }
-        } else if let Some(off) = c.get(st..).and_then(|t| t.iter().position(|&x| x == '.')) {
-            names.push((st, st + off, st + off + 1));
+        }
+    } else if let (true, Some(fc)) = (no_dot, first_colon) {
+        // `(?P<name>[^:]*):`
+        names.push((0, fc, fc + 1));
+    } else {
+        // `\.?(?P<name>[^.]*)\.`
+        let starts: &[usize] = if c.first() == Some(&'.') {
+            &[1, 0]
+        } else {
+            &[0]
+        };
+        for &st in starts {
+            if let Some(off) = c.get(st..).and_then(|t| t.iter().position(|&x| x == '.')) {
+                names.push((st, st + off, st + off + 1));
+            }
         }
     }
+    let with_unit = !no_dot;
     let rules: Vec<ValueRule> = match (first_colon, kind) {
         (None, _) => vec![ValueRule::Rest],
+        _ if no_dot => vec![ValueRule::Rest],
         (Some(_), LineKind::Parameter) => vec![ValueRule::TimeColon, ValueRule::LastColon],
         (Some(_), _) => vec![ValueRule::LastColon],
     };
     let m = Matcher::new(&c);
     for rule in rules {
         for &(ns, ne, r) in &names {
-            if let Some((ue, ve, ds)) = m.rest(r, rule) {
+            if let Some((ue, ve, ds)) = m.rest(r, with_unit, rule) {
                 return Some(finish(
                     s(&c, ns, ne),
                     s(&c, r, ue),
                     s(&c, ue, ve),
                     ds.map_or(String::new(), |d| s(&c, d, n)),
-                    false,
+                    no_dot,
                 ));
             }
         }
@@ -326,5 +340,80 @@ mod tests {
         assert_eq!(f("Y.U:V:W", Other), t("Y", "U:V", "", "W"));
         assert!(split_line("no dot or colon", Other).is_none());
         assert_eq!(strip_brackets(" (m) "), "m");
+    }
+}
+
+/// Thousands of random header-like lines split by lasio 0.31's
+/// `read_header_line` (tests/reference/lasio_header_lines.py): live when
+/// STRATIPRIOR_PYTHON is set, else from the committed golden file.
+#[cfg(test)]
+mod lasio_lines {
+    use super::*;
+    use serde_json::Value;
+    use std::io::Write;
+    use std::process::{Command, Stdio};
+
+    fn ours(line: &str, kind: LineKind) -> Value {
+        match split_line(line, kind) {
+            None => Value::Null,
+            Some(f) => serde_json::json!([f.name, f.unit, f.value, f.descr]),
+        }
+    }
+
+    #[test]
+    fn random_lines_split_as_lasio_splits_them() {
+        let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+        let gpath = root.join("tests/golden/las/header_lines.json");
+        let golden: Value =
+            serde_json::from_str(&std::fs::read_to_string(&gpath).unwrap()).unwrap();
+        let lines: Vec<String> = golden["lines"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|l| l.as_str().unwrap().to_string())
+            .collect();
+        let mut results = golden["results"].clone();
+        let mut label = "golden";
+        match std::env::var("STRATIPRIOR_PYTHON") {
+            Ok(py) if !py.trim().is_empty() => {
+                let mut child = Command::new(&py)
+                    .arg(root.join("tests/reference/lasio_header_lines.py"))
+                    .stdin(Stdio::piped())
+                    .stdout(Stdio::piped())
+                    .spawn()
+                    .unwrap();
+                let input = serde_json::to_vec(&lines).unwrap();
+                child.stdin.take().unwrap().write_all(&input).unwrap();
+                let out = child.wait_with_output().unwrap();
+                assert!(out.status.success(), "lasio_header_lines.py failed");
+                let live: Value = serde_json::from_slice(&out.stdout).unwrap();
+                assert_eq!(live, results, "golden header_lines.json is stale");
+                results = live;
+                label = "live";
+            }
+            _ => assert!(
+                std::env::var("STRATIPRIOR_REQUIRE_PYTHON").as_deref() != Ok("1"),
+                "STRATIPRIOR_REQUIRE_PYTHON=1 but STRATIPRIOR_PYTHON is not set"
+            ),
+        }
+        let mut bad = Vec::new();
+        let mut n = 0;
+        for (key, kind) in [
+            ("Other", LineKind::Other),
+            ("Curves", LineKind::Curves),
+            ("Parameter", LineKind::Parameter),
+        ] {
+            let want = results[key].as_array().unwrap();
+            assert_eq!(want.len(), lines.len());
+            for (line, w) in lines.iter().zip(want) {
+                n += 1;
+                let o = ours(line, kind);
+                if &o != w && bad.len() < 20 {
+                    bad.push(format!("{key} {line:?}: ours {o}, lasio {w}"));
+                }
+            }
+        }
+        println!("header lines ({label}): {n} splits compared with lasio");
+        assert!(bad.is_empty(), "{}", bad.join("\n"));
     }
 }
