@@ -38,9 +38,10 @@ fn corpus() -> (Vec<Vec<u8>>, Vec<Vec<u8>>) {
 }
 
 /// Default case count: 100000 in every profile. Measured on the project
-/// machine (2 shared cores): about 20 s in a debug build (the parser is not
-/// optimised there) and a few seconds in release, so no lower debug default is
-/// needed. Set STRATIPRIOR_FUZZ_CASES for a quicker or a longer run.
+/// machine (2 shared cores) in a debug build, where the parser is not
+/// optimised: about 20 s. Release (what CI runs) is only faster, so no lower
+/// debug default is needed. Set STRATIPRIOR_FUZZ_CASES for a quicker or a
+/// longer run.
 fn default_cases() -> usize {
     100_000
 }

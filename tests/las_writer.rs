@@ -374,3 +374,26 @@ fn writer_refuses_what_would_not_read_back() {
         vec![10.0 * 0.3048, 9.0 * 0.3048, 7.5 * 0.3048]
     );
 }
+
+#[test]
+fn items_read_from_a_file_can_be_written_again() {
+    let src = read_las(&root().join("tests/data/las/valid/v20_unwrapped.las")).unwrap();
+    let keep: Vec<WriteItem<'_>> = src
+        .sections
+        .well
+        .iter()
+        .filter(|i| !["STRT", "STOP", "STEP", "NULL"].contains(&i.mnemonic.as_str()))
+        .map(WriteItem::from)
+        .collect();
+    assert_eq!(keep.len(), 7);
+    let d = data();
+    let text = render_las2(&keep, &curves(&d)[..2], NULL).unwrap();
+    let back = parse_las(text.as_bytes(), std::path::Path::new("copy.las")).unwrap();
+    for it in &keep {
+        let b = back.well_item(it.mnemonic).unwrap();
+        assert_eq!(
+            (b.unit.as_str(), b.value.as_str(), b.description.as_str()),
+            (it.unit, it.value, it.description)
+        );
+    }
+}

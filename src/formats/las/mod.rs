@@ -15,10 +15,10 @@
 //! `GR:2`, ..., LAS 1.2 well items with the value in the description field,
 //! header values up to the last colon); where lasio would guess (short or long
 //! data rows, a wrapped record that runs on, a non-numeric sample, a missing
-//! `NULL`) the reader stops with an [`Error::Input`](crate::error::Error::Input)
+//! `NULL`) the reader stops with an [`Error::Input`]
 //! naming the file, the line and what was expected. Samples equal to `NULL`
 //! become `None`. LAS 3.0 is refused with
-//! [`Error::Unsupported`](crate::error::Error::Unsupported).
+//! [`Error::Unsupported`].
 //!
 //! Choices where lasio is silent or lenient (documented here once):
 //! * `VERS` must be 1.2 or 2.0, `WRAP` must be `YES` or `NO` (any case), and

@@ -21,6 +21,19 @@ pub struct WriteItem<'a> {
     pub description: &'a str,
 }
 
+impl<'a> From<&'a super::HeaderItem> for WriteItem<'a> {
+    /// Copy an item that was read (its original mnemonic, unit, value and
+    /// description), e.g. to carry a well's `~W` items into a derived file.
+    fn from(it: &'a super::HeaderItem) -> Self {
+        WriteItem {
+            mnemonic: &it.original_mnemonic,
+            unit: &it.unit,
+            value: &it.value,
+            description: &it.description,
+        }
+    }
+}
+
 /// How the samples of a curve are printed.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum Decimals {
