@@ -5,6 +5,7 @@ lasio (LAS), segyio (SEG-Y) and numpy (.npy).
     python demo_reference.py DEMO_DIR --golden   # also write the golden files
                                                  # next to this script
 
+Rerun with --golden on the repository top whenever the committed demo changes.
 The golden files let `cargo test` check the committed demo on machines
 without these libraries: demo_reference.json (the summary of the committed
 demo, without demo_truth/) and npy_arange_2x3x4.npy (numpy.save of
