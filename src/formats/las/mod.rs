@@ -9,7 +9,7 @@
 //!
 //! # Reading
 //!
-//! `read_las` / `parse_las` read a file strictly: where the file is well
+//! [`read_las`] / [`parse_las`] read a file strictly: where the file is well
 //! formed they give what the reference library lasio (PyPI, version 0.31) gives
 //! with its default settings (mnemonics upper-cased, duplicates renamed `GR:1`,
 //! `GR:2`, ..., LAS 1.2 well items with the value in the description field,
@@ -43,18 +43,20 @@
 //!
 //! # Writing
 //!
-//! [`write_las2`] writes an unwrapped LAS 2.0 file that `read_las` and lasio
+//! [`write_las2`] writes an unwrapped LAS 2.0 file that [`read_las`] and lasio
 //! read back to the same numbers (the shortest decimal that round-trips each
 //! f64 is written, unless a curve asks for a fixed number of decimals).
 
-#[allow(dead_code)] // TEMPORARY-WRITER-COMMIT
+mod header;
+mod reader;
 mod text;
 mod writer;
 
 use crate::error::{Error, Result};
 use serde::Serialize;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
+pub use reader::parse_las;
 pub use writer::{render_las2, write_las2, Decimals, WriteCurve, WriteItem};
 
 /// One line of a header section: `MNEM.UNIT  VALUE : DESCRIPTION`.
@@ -156,10 +158,10 @@ impl LasCurve {
     }
 }
 
-/// A LAS file as read by `read_las`.
+/// A LAS file as read by [`read_las`].
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct LasFile {
-    /// The path the file was read from (as given to `parse_las`).
+    /// The path the file was read from (as given to [`parse_las`]).
     pub path: PathBuf,
     /// `"1.2"` or `"2.0"`.
     pub version: String,
@@ -170,7 +172,7 @@ pub struct LasFile {
     /// All header items, by section.
     pub sections: LasSections,
     /// Curves in column order; the first is the index. A file read by
-    /// `read_las` always has at least one curve and one depth step.
+    /// [`read_las`] always has at least one curve and one depth step.
     pub curves: Vec<LasCurve>,
     /// Things that are odd but do not make the numbers wrong (STRT not equal
     /// to the first depth, STEP not matching the data, ...), each naming the line.
@@ -380,4 +382,11 @@ impl LasFile {
             warnings: self.warnings.clone(),
         }
     }
+}
+
+/// Read the LAS file at `path` (see the module documentation for what is
+/// accepted).
+pub fn read_las(path: &Path) -> Result<LasFile> {
+    let bytes = std::fs::read(path).map_err(|e| Error::io(path, e))?;
+    parse_las(&bytes, path)
 }

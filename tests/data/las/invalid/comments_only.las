@@ -1,0 +1,2 @@
+# a file with only comments
+# and nothing else
