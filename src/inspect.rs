@@ -308,7 +308,7 @@ impl Inspection {
             }
             Inspection::Segy { path, summary } => {
                 let _ = writeln!(s, "SEG-Y file {}", path.display());
-                let _ = write!(s, "{}", summary.render_text());
+                let _ = write!(s, "{summary}");
             }
             Inspection::Picks {
                 path,

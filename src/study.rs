@@ -311,6 +311,13 @@ pub fn load(project_path: &Path, progress: bool) -> Result<Study> {
     }
     let mut surfaces: Vec<Surface> = horizons.iter().map(|h| h.surface.clone()).collect();
     let crossings = enforce_order(&mut surfaces, grid);
+    let nodes = grid.trace_count();
+    if let Some(c) = crossings.iter().find(|c| 2 * c.nodes_clipped > nodes) {
+        return Err(Error::inconsistent(format!(
+            "horizon {} lies above horizon {} at {} of {} map nodes (by up to {:.1} m): the [[horizons]] order (shallow to deep) looks wrong",
+            c.lower, c.upper, c.nodes_clipped, nodes, c.max_overlap
+        )));
+    }
     for (h, s) in horizons.iter_mut().zip(surfaces) {
         h.surface = s;
     }
