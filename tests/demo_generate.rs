@@ -467,3 +467,49 @@ fn the_wedge_pinches_and_the_labels_have_errors() {
     assert!((0.10..0.20).contains(&report.facies_label_error_fraction));
     assert!((0.01..0.10).contains(&report.background_rms_relative_error));
 }
+
+#[test]
+fn crate_readers_take_every_demo_las_file_and_map_its_curves() {
+    use stratiprior::formats::las::read_las;
+    use stratiprior::ingest::logs::{map_curves, FileCurve};
+    use stratiprior::project::CurveProperty;
+    let (dir, report) = fresh();
+    let p = Project::load(&dir.path().join("demo.toml")).unwrap();
+    for w in &report.wells {
+        let las = read_las(&dir.path().join(&w.las_file)).unwrap();
+        assert!(las.warnings.is_empty(), "{}: {:?}", w.name, las.warnings);
+        assert_eq!(las.samples(), w.samples);
+        let md = las.index_in_metres().unwrap();
+        assert!(
+            (md[0] - w.logged_md.0).abs() < 1e-6 && (md[md.len() - 1] - w.logged_md.1).abs() < 1e-6
+        );
+        assert_eq!(las.well_item("WELL").unwrap().value, w.name);
+        let curves: Vec<FileCurve<'_>> = las.curves[1..]
+            .iter()
+            .map(|c| FileCurve {
+                mnemonic: &c.mnemonic,
+                unit: &c.unit,
+                values: &c.data,
+            })
+            .collect();
+        // the project's curve mapping finds every property with matching units
+        let (logs, warnings) =
+            map_curves(&w.name, &las.path, &curves, &p.curves, &p.facies, &md).unwrap();
+        assert!(warnings.is_empty(), "{}: {warnings:?}", w.name);
+        for prop in [
+            CurveProperty::Vp,
+            CurveProperty::Vs,
+            CurveProperty::Density,
+            CurveProperty::Epsilon,
+            CurveProperty::Delta,
+            CurveProperty::Facies,
+        ] {
+            let l = &logs[&prop];
+            let expect = w.samples - w.gap_md.map_or(0, |_| 120);
+            assert_eq!(l.count(), expect, "{} {prop:?}", w.name);
+        }
+        // SI velocities in the range of the truth model (m/s)
+        let (lo, hi) = logs[&CurveProperty::Vp].range().unwrap();
+        assert!(lo > 2300.0 && hi < 4600.0, "{}: Vp {lo}..{hi}", w.name);
+    }
+}

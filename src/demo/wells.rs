@@ -1,7 +1,7 @@
 //! The demo wells: plans, deviation surveys, tops and logs sampled from the
 //! truth along the trajectories exactly where the well reader will place them.
 
-use super::basin::{Basin, FACIES, HORIZONS};
+use super::basin::{Basin, HORIZONS};
 use super::grf::normal;
 use crate::error::{Error, Result};
 use crate::ingest::trajectory::{Station, Trajectory};
@@ -275,6 +275,9 @@ pub const LOG_NOISE: [(&str, f64); 6] = [
     ("DELTA", 0.002),
 ];
 
+/// Description of the FACIES curve (codes of [`super::basin::FACIES`]).
+const FACIES_DESCRIPTION: &str = "Facies code (1 channel sand, 2 shale, 3 heterolithic)";
+
 /// Margin of log coverage above the top horizon and below the base, m TVD.
 const LOG_MARGIN: f64 = 50.0;
 
@@ -489,12 +492,6 @@ fn describe(c: Curve, spec: &WellSpec) -> (&'static str, &'static str, &'static 
             "",
             "Thomsen delta from core and anisotropy processing",
         ),
-        Curve::Facies => ("FACIES", "", facies_description()),
+        Curve::Facies => ("FACIES", "", FACIES_DESCRIPTION),
     }
-}
-
-fn facies_description() -> &'static str {
-    // keep in step with basin::FACIES
-    debug_assert_eq!(FACIES.len(), 3);
-    "Facies code (1 channel sand, 2 shale, 3 heterolithic)"
 }
