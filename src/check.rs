@@ -184,7 +184,9 @@ pub fn run(project: &Path, progress: bool) -> Result<CheckReport> {
 }
 
 fn minmax(it: impl Iterator<Item = f64>) -> (f64, f64) {
-    it.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| (a.min(v), b.max(v)))
+    it.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| {
+        (a.min(v), b.max(v))
+    })
 }
 
 /// Whether depth `z` lies in a zone whose top and base are at `top` and `base`
@@ -286,7 +288,8 @@ pub fn summarize(study: &Study) -> CheckReport {
                 let mut n = 0usize;
                 let mut r = (f64::INFINITY, f64::NEG_INFINITY);
                 for (k, q) in w.points.iter().enumerate() {
-                    if let (Some(t), Some(b)) = (top.z_at_xy(g, q.x, q.y), base.z_at_xy(g, q.x, q.y))
+                    if let (Some(t), Some(b)) =
+                        (top.z_at_xy(g, q.x, q.y), base.z_at_xy(g, q.x, q.y))
                     {
                         if in_zone(q.z, t, b) {
                             n += 1;
@@ -451,7 +454,13 @@ impl CheckReport {
             let curves: Vec<String> = w
                 .curves
                 .iter()
-                .map(|(m, u)| if u.is_empty() { m.clone() } else { format!("{m} [{u}]") })
+                .map(|(m, u)| {
+                    if u.is_empty() {
+                        m.clone()
+                    } else {
+                        format!("{m} [{u}]")
+                    }
+                })
                 .collect();
             let _ = writeln!(s, "    curves: {}", curves.join(", "));
             for p in &w.properties {
@@ -477,7 +486,11 @@ impl CheckReport {
             let _ = writeln!(
                 s,
                 "    zones: {}",
-                if zs.is_empty() { "none".into() } else { zs.join(", ") }
+                if zs.is_empty() {
+                    "none".into()
+                } else {
+                    zs.join(", ")
+                }
             );
         }
 
@@ -510,7 +523,11 @@ impl CheckReport {
             }
             match h.max_abs_mistie {
                 Some(m) => {
-                    let _ = writeln!(s, "    tied to {} tops, largest |mistie| {m:.2} m", h.tops_tied);
+                    let _ = writeln!(
+                        s,
+                        "    tied to {} tops, largest |mistie| {m:.2} m",
+                        h.tops_tied
+                    );
                 }
                 None => {
                     let _ = writeln!(s, "    not tied (no tops)");
@@ -523,7 +540,12 @@ impl CheckReport {
                 let at = c
                     .max_overlap_at
                     .as_ref()
-                    .map(|n| format!(" (largest at il {} xl {}, x {:.1} y {:.1})", n.inline, n.xline, n.x, n.y))
+                    .map(|n| {
+                        format!(
+                            " (largest at il {} xl {}, x {:.1} y {:.1})",
+                            n.inline, n.xline, n.x, n.y
+                        )
+                    })
                     .unwrap_or_default();
                 let _ = writeln!(
                     s,
@@ -536,7 +558,10 @@ impl CheckReport {
         }
 
         if !self.misties.is_empty() {
-            let _ = writeln!(s, "\nTie misties (top minus gridded picks; positive: top deeper)");
+            let _ = writeln!(
+                s,
+                "\nTie misties (top minus gridded picks; positive: top deeper)"
+            );
             let _ = writeln!(
                 s,
                 "  {:<12} {:<24} {:>10} {:>10} {:>12}",
@@ -560,7 +585,11 @@ impl CheckReport {
             );
         }
         if !self.facies.is_empty() {
-            let f: Vec<String> = self.facies.iter().map(|(c, n)| format!("{c} = {n}")).collect();
+            let f: Vec<String> = self
+                .facies
+                .iter()
+                .map(|(c, n)| format!("{c} = {n}"))
+                .collect();
             let _ = writeln!(s, "\nFacies: {}", f.join(", "));
         }
         if !self.volumes.is_empty() {

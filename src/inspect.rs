@@ -155,11 +155,22 @@ pub fn guess_kind(path: &Path) -> Result<FileKind> {
     if has("las") && has("datum_elevation") {
         return Ok(FileKind::WellTable);
     }
-    let binary = head.iter().take(3600).filter(|&&b| b == 0 || b >= 0x80).count();
+    let binary = head
+        .iter()
+        .take(3600)
+        .filter(|&&b| b == 0 || b >= 0x80)
+        .count();
     if n >= 3600 && binary > 100 {
         return Ok(FileKind::Segy);
     }
-    if ext == "txt" || ext == "dat" || first.split([' ', '\t', ',']).filter(|s| !s.is_empty()).count() == 3 {
+    if ext == "txt"
+        || ext == "dat"
+        || first
+            .split([' ', '\t', ','])
+            .filter(|s| !s.is_empty())
+            .count()
+            == 3
+    {
         return Ok(FileKind::Picks);
     }
     Err(Error::input(
@@ -170,7 +181,9 @@ pub fn guess_kind(path: &Path) -> Result<FileKind> {
 }
 
 fn range(it: impl Iterator<Item = f64>) -> (f64, f64) {
-    it.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| (a.min(v), b.max(v)))
+    it.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| {
+        (a.min(v), b.max(v))
+    })
 }
 
 /// Read `path` as `kind` (guessed when `None`). `with_values` adds every LAS

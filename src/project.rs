@@ -251,9 +251,9 @@ impl CurveUnit {
             CurveUnit::MicrosecondsPerFoot => (v > 0.0).then(|| 304_800.0 / v),
             CurveUnit::MicrosecondsPerMetre => (v > 0.0).then(|| 1.0e6 / v),
             CurveUnit::MetresPerSecond => (v > 0.0).then_some(v),
-            CurveUnit::KilometresPerSecond => (v > 0.0).then(|| v * 1000.0),
-            CurveUnit::FeetPerSecond => (v > 0.0).then(|| v * 0.3048),
-            CurveUnit::GramsPerCubicCentimetre => (v > 0.0).then(|| v * 1000.0),
+            CurveUnit::KilometresPerSecond => (v > 0.0).then_some(v * 1000.0),
+            CurveUnit::FeetPerSecond => (v > 0.0).then_some(v * 0.3048),
+            CurveUnit::GramsPerCubicCentimetre => (v > 0.0).then_some(v * 1000.0),
             CurveUnit::KilogramsPerCubicMetre => (v > 0.0).then_some(v),
             CurveUnit::Dimensionless | CurveUnit::Code => Some(v),
         }
@@ -493,17 +493,19 @@ impl Project {
                 })?;
                 match CurveUnit::parse(u) {
                     Some(cu) if allowed.contains(&cu) => cu,
-                    _ => {
-                        return Err(perr(format!(
-                            "curves.{key}.unit: \"{u}\" is not a unit for {key}; expected one of {}",
-                            names.join(", ")
-                        )))
-                    }
+                    _ => return Err(perr(format!(
+                        "curves.{key}.unit: \"{u}\" is not a unit for {key}; expected one of {}",
+                        names.join(", ")
+                    ))),
                 }
             };
             curves.push(CurveSpec {
                 property: prop,
-                mnemonics: spec.mnemonics.iter().map(|m| m.trim().to_string()).collect(),
+                mnemonics: spec
+                    .mnemonics
+                    .iter()
+                    .map(|m| m.trim().to_string())
+                    .collect(),
                 unit,
             });
         }
@@ -567,7 +569,9 @@ impl Project {
                 return Err(perr(format!("zones[{k}].name: must not be empty")));
             }
             if zones.iter().any(|o| o.name == name) {
-                return Err(perr(format!("zones[{k}]: zone \"{name}\" is defined twice")));
+                return Err(perr(format!(
+                    "zones[{k}]: zone \"{name}\" is defined twice"
+                )));
             }
             let top = horizon_index(&format!("zones[{k}].top"), &z.top)?;
             let base = horizon_index(&format!("zones[{k}].base"), &z.base)?;
@@ -602,9 +606,7 @@ impl Project {
             });
         }
         if zones.is_empty() {
-            return Err(perr(
-                "zones: at least one [[zones]] entry is needed".into(),
-            ));
+            return Err(perr("zones: at least one [[zones]] entry is needed".into()));
         }
         zones.sort_by_key(|z| z.top);
         for w in zones.windows(2) {

@@ -14,7 +14,9 @@ use crate::frame::tie::{tie_surface, TiePoint, TieReport};
 use crate::ingest::logs::{map_curves, FileCurve, PropertyLog};
 use crate::ingest::picks::read_picks;
 use crate::ingest::trajectory::Trajectory;
-use crate::ingest::wells::{read_survey, read_tops, read_well_table, WellEntry, WellPath, WellPoint};
+use crate::ingest::wells::{
+    read_survey, read_tops, read_well_table, WellEntry, WellPath, WellPoint,
+};
 use crate::project::{CurveProperty, HorizonDef, Project};
 use indicatif::{ProgressBar, ProgressStyle};
 use serde::Serialize;
@@ -241,7 +243,11 @@ pub fn load(project_path: &Path, progress: bool) -> Result<Study> {
                 ));
                 continue;
             };
-            let Some(h) = project.horizons.iter().position(|h| h.tops_name == t.surface) else {
+            let Some(h) = project
+                .horizons
+                .iter()
+                .position(|h| h.tops_name == t.surface)
+            else {
                 warnings.push(format!(
                     "{}:{}: top \"{}\" of well {} ignored: no horizon has this tops_name",
                     tops_path.display(),

@@ -53,7 +53,12 @@ fn stderr(o: &Output) -> String {
 /// Assert a clean failure (exit 1, not a panic) whose message contains every fragment.
 fn assert_fails_with(o: &Output, fragments: &[&str]) {
     let e = stderr(o);
-    assert_eq!(o.status.code(), Some(1), "expected exit 1, got {:?}: {e}", o.status);
+    assert_eq!(
+        o.status.code(),
+        Some(1),
+        "expected exit 1, got {:?}: {e}",
+        o.status
+    );
     assert!(!e.contains("panicked"), "panic: {e}");
     for f in fragments {
         assert!(e.contains(f), "message lacks {f:?}: {e}");
@@ -89,11 +94,22 @@ fn check_demo_reports_every_well_and_horizon() {
     for h in &project.horizons {
         assert!(out.contains(&h.name), "summary lacks horizon {}", h.name);
     }
-    for section in ["Survey grid", "Wells", "Horizons", "Tie misties", "Zones", "Input volumes"] {
+    for section in [
+        "Survey grid",
+        "Wells",
+        "Horizons",
+        "Tie misties",
+        "Zones",
+        "Input volumes",
+    ] {
         assert!(out.contains(section), "summary lacks {section}");
     }
 
-    let o = run(&["check", "--json", d.path().join("demo.toml").to_str().unwrap()]);
+    let o = run(&[
+        "check",
+        "--json",
+        d.path().join("demo.toml").to_str().unwrap(),
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     assert_eq!(
@@ -106,7 +122,11 @@ fn check_demo_reports_every_well_and_horizon() {
     );
     // every well with tops has a mistie row per top, and the tie honours the tops
     let tops = fs::read_to_string(d.path().join("demo_wells/tops.csv")).unwrap();
-    let n_tops = tops.lines().skip(1).filter(|l| !l.trim().is_empty()).count();
+    let n_tops = tops
+        .lines()
+        .skip(1)
+        .filter(|l| !l.trim().is_empty())
+        .count();
     let misties = j["misties"].as_array().unwrap();
     assert_eq!(misties.len(), n_tops);
     for m in misties {
@@ -118,11 +138,16 @@ fn check_demo_reports_every_well_and_horizon() {
         .iter()
         .map(|m| m["mistie"].as_f64().unwrap().abs())
         .fold(0.0, f64::max);
-    assert!(max_mistie > 1.0 && max_mistie < 20.0, "max mistie {max_mistie}");
+    assert!(
+        max_mistie > 1.0 && max_mistie < 20.0,
+        "max mistie {max_mistie}"
+    );
     // deviated wells and the logging gap are reported
     let wells = j["wells"].as_array().unwrap();
     assert!(wells.iter().filter(|w| w["deviated"] == true).count() >= 2);
-    assert!(wells.iter().any(|w| !w["gaps"].as_array().unwrap().is_empty()));
+    assert!(wells
+        .iter()
+        .any(|w| !w["gaps"].as_array().unwrap().is_empty()));
     // every well penetrates at least one zone
     for w in wells {
         assert!(!w["zones"].as_array().unwrap().is_empty(), "{}", w["name"]);
@@ -132,7 +157,11 @@ fn check_demo_reports_every_well_and_horizon() {
 #[test]
 fn quiet_prints_nothing() {
     let d = demo_copy();
-    let o = run(&["check", "--quiet", d.path().join("demo.toml").to_str().unwrap()]);
+    let o = run(&[
+        "check",
+        "--quiet",
+        d.path().join("demo.toml").to_str().unwrap(),
+    ]);
     assert!(o.status.success());
     assert!(o.stdout.is_empty());
 }
@@ -141,7 +170,15 @@ fn quiet_prints_nothing() {
 fn missing_file_is_named() {
     let d = demo_copy();
     let table = fs::read_to_string(d.path().join("demo_wells/wells.csv")).unwrap();
-    let las = table.lines().nth(1).unwrap().split(',').nth(1).unwrap().trim().to_string();
+    let las = table
+        .lines()
+        .nth(1)
+        .unwrap()
+        .split(',')
+        .nth(1)
+        .unwrap()
+        .trim()
+        .to_string();
     fs::remove_file(d.path().join("demo_wells").join(&las)).unwrap();
     assert_fails_with(&check(d.path()), &[&las, "No such file"]);
 }
@@ -158,7 +195,11 @@ fn unknown_key_is_named_with_its_line() {
     let p = d.path().join("demo.toml");
     let text = fs::read_to_string(&p).unwrap();
     let line = text.lines().position(|l| l.trim() == "[grid]").unwrap() + 2;
-    fs::write(&p, text.replacen("[grid]\n", "[grid]\ncolour = \"red\"\n", 1)).unwrap();
+    fs::write(
+        &p,
+        text.replacen("[grid]\n", "[grid]\ncolour = \"red\"\n", 1),
+    )
+    .unwrap();
     assert_fails_with(
         &check(d.path()),
         &["unknown field `colour`", &format!("demo.toml:{line}")],
@@ -246,7 +287,15 @@ fn volume_on_another_grid_is_reported() {
 fn inspect_reads_every_kind_of_demo_file() {
     let d = demo_copy();
     let table = fs::read_to_string(d.path().join("demo_wells/wells.csv")).unwrap();
-    let las = table.lines().nth(1).unwrap().split(',').nth(1).unwrap().trim().to_string();
+    let las = table
+        .lines()
+        .nth(1)
+        .unwrap()
+        .split(',')
+        .nth(1)
+        .unwrap()
+        .trim()
+        .to_string();
     let las_path = d.path().join("demo_wells").join(&las);
     let o = run(&["inspect", "--json", las_path.to_str().unwrap()]);
     assert!(o.status.success(), "{}", stderr(&o));
@@ -287,7 +336,11 @@ fn inspect_reads_every_kind_of_demo_file() {
 fn inspect_bad_file_fails_cleanly() {
     let d = tempfile::tempdir().unwrap();
     let p = d.path().join("broken.las");
-    fs::write(&p, "~Version\nVERS. 2.0 :\nWRAP. NO :\n~Curve\nDEPT.M :\n~A\n1.0 2.0\n").unwrap();
+    fs::write(
+        &p,
+        "~Version\nVERS. 2.0 :\nWRAP. NO :\n~Curve\nDEPT.M :\n~A\n1.0 2.0\n",
+    )
+    .unwrap();
     assert_fails_with(&run(&["inspect", p.to_str().unwrap()]), &["broken.las"]);
     let p = d.path().join("garbage.sgy");
     fs::write(&p, vec![7u8; 5000]).unwrap();

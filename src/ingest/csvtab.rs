@@ -78,7 +78,10 @@ pub fn read_table(path: &Path, required: &[&str], optional: &[&str]) -> Result<T
                 }
                 let mut vals = Vec::with_capacity(idx.len());
                 for (k, pos) in idx.iter().enumerate() {
-                    let v = pos.and_then(|p| rec.get(p)).map(String::as_str).unwrap_or("");
+                    let v = pos
+                        .and_then(|p| rec.get(p))
+                        .map(String::as_str)
+                        .unwrap_or("");
                     if k < required.len() && v.is_empty() {
                         return Err(Error::input(
                             path,

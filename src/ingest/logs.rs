@@ -97,11 +97,10 @@ pub fn map_curves(
     let ctx = |msg: String| Error::inconsistent(format!("well {well} ({}): {msg}", file.display()));
     for spec in specs {
         let key = spec.property.key();
-        let found = spec.mnemonics.iter().find_map(|m| {
-            curves
-                .iter()
-                .find(|c| c.mnemonic.eq_ignore_ascii_case(m))
-        });
+        let found = spec
+            .mnemonics
+            .iter()
+            .find_map(|m| curves.iter().find(|c| c.mnemonic.eq_ignore_ascii_case(m)));
         let Some(c) = found else {
             if spec.property == CurveProperty::Vp {
                 let have: Vec<&str> = curves.iter().map(|c| c.mnemonic).collect();
@@ -226,7 +225,11 @@ mod tests {
             "W",
             Path::new("w.las"),
             &c,
-            &[spec(CurveProperty::Vp, "DT", CurveUnit::MicrosecondsPerFoot)],
+            &[spec(
+                CurveProperty::Vp,
+                "DT",
+                CurveUnit::MicrosecondsPerFoot,
+            )],
             &[],
             &md,
         )
@@ -247,7 +250,11 @@ mod tests {
             unit: "US/M",
             values: &vals,
         }];
-        let specs = [spec(CurveProperty::Vp, "DT", CurveUnit::MicrosecondsPerFoot)];
+        let specs = [spec(
+            CurveProperty::Vp,
+            "DT",
+            CurveUnit::MicrosecondsPerFoot,
+        )];
         let e = map_curves("W", Path::new("w.las"), &c, &specs, &[], &md)
             .unwrap_err()
             .to_string();

@@ -142,10 +142,7 @@ pub fn read_tops(path: &Path) -> Result<Vec<Top>> {
                 format!("md {md} is negative; expected metres measured depth from the datum"),
             ));
         }
-        if let Some(prev) = out
-            .iter()
-            .find(|t| t.well == v[0] && t.surface == v[1])
-        {
+        if let Some(prev) = out.iter().find(|t| t.well == v[0] && t.surface == v[1]) {
             return Err(Error::input(
                 path,
                 Some(*line),
@@ -225,7 +222,10 @@ mod tests {
         let s = dir.path().join("s.csv");
         std::fs::write(&s, "md,inclination,azimuth\n0,0,0\n100,5,10\n90,6,10\n").unwrap();
         let e = read_survey(&s).unwrap_err().to_string();
-        assert!(e.contains("s.csv:4:") && e.contains("does not increase"), "{e}");
+        assert!(
+            e.contains("s.csv:4:") && e.contains("does not increase"),
+            "{e}"
+        );
         std::fs::write(&s, "md,inclination,azimuth\n0,0,0\n100,x,10\n").unwrap();
         let e = read_survey(&s).unwrap_err().to_string();
         assert!(e.contains(":3:") && e.contains("inclination"), "{e}");
