@@ -7,7 +7,7 @@
 //! it with lasio too) with lasio's dump in tests/golden/las/writer_output.json.
 //! With STRATIPRIOR_PYTHON set, lasio also reads a freshly written file.
 //! After a deliberate change of the writer's layout, regenerate with
-//! STRATIPRIOR_UPDATE_GOLDEN=1 cargo test --test las_writer, then
+//! STRATIPRIOR_REGEN_GOLDEN=1 cargo test --test las_writer, then
 //! python tests/reference/lasio_dump.py --write-golden tests/golden/las
 //! tests/data/las/valid/writer_output.las.
 
@@ -232,7 +232,7 @@ fn writer_output_is_stable_and_lasio_reads_the_same_numbers() {
     let d = data();
     let text = render_las2(ITEMS, &curves(&d), NULL).unwrap();
     let committed_path = root().join("tests/data/las/valid/writer_output.las");
-    if std::env::var("STRATIPRIOR_UPDATE_GOLDEN").as_deref() == Ok("1") {
+    if std::env::var("STRATIPRIOR_REGEN_GOLDEN").as_deref() == Ok("1") {
         std::fs::write(&committed_path, &text).unwrap();
     }
     let committed = std::fs::read_to_string(&committed_path).unwrap();
