@@ -493,10 +493,12 @@ impl Project {
                 })?;
                 match CurveUnit::parse(u) {
                     Some(cu) if allowed.contains(&cu) => cu,
-                    _ => return Err(perr(format!(
+                    _ => {
+                        return Err(perr(format!(
                         "curves.{key}.unit: \"{u}\" is not a unit for {key}; expected one of {}",
                         names.join(", ")
-                    ))),
+                    )))
+                    }
                 }
             };
             curves.push(CurveSpec {
