@@ -3,4 +3,5 @@
 
 pub mod gridding;
 pub mod horizons;
+pub mod strat;
 pub mod tie;
