@@ -16,10 +16,12 @@
 //! Units are SI inside (m, m/s, kg/m3); conversion happens at the edges.
 
 pub mod check;
+pub mod condition;
 pub mod demo;
 pub mod error;
 pub mod formats;
 pub mod frame;
+pub mod geostat;
 pub mod grid;
 pub mod ingest;
 pub mod inspect;

@@ -1,0 +1,1 @@
+//! Backus (1962) averaging of finely layered isotropic media into an effective VTI medium.

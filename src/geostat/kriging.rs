@@ -1,0 +1,1 @@
+//! Simple, ordinary and external-drift kriging with kriging variance.

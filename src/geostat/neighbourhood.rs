@@ -1,0 +1,1 @@
+//! Kriging neighbourhoods that draw from several wells.
