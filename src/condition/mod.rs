@@ -4,3 +4,4 @@
 
 pub mod backus;
 pub mod thomsen;
+pub mod blocking;
