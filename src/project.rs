@@ -32,6 +32,75 @@ struct RawProject {
     facies: Vec<FaciesDef>,
     #[serde(default)]
     volumes: RawVolumes,
+    conditioning: Option<RawConditioning>,
+    kriging: Option<RawKriging>,
+    bounds: Option<RawBounds>,
+    #[serde(default)]
+    variograms: BTreeMap<String, BTreeMap<String, toml::Value>>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawConditioning {
+    source: Option<String>,
+    backus_window: Option<f64>,
+    backus_number: Option<f64>,
+    dominant_frequency: Option<f64>,
+    #[serde(default)]
+    intrinsic: Vec<RawIntrinsic>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawIntrinsic {
+    facies: String,
+    epsilon: Option<RawIntrinsicValue>,
+    delta: Option<RawIntrinsicValue>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(untagged)]
+enum RawIntrinsicValue {
+    Constant(f64),
+    Linear(RawLinear),
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawLinear {
+    log: String,
+    intercept: f64,
+    slope: f64,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawKriging {
+    neighbours: Option<i64>,
+    per_well: Option<i64>,
+    max_wells: Option<i64>,
+    search_radius: Option<f64>,
+    vp0: Option<String>,
+    epsilon: Option<String>,
+    delta: Option<String>,
+    vp0_drift: Option<String>,
+    #[serde(default)]
+    zones: BTreeMap<String, RawKrigingZone>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawKrigingZone {
+    vp0: Option<String>,
+    epsilon: Option<String>,
+    delta: Option<String>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawBounds {
+    epsilon: Option<(f64, f64)>,
+    delta: Option<(f64, f64)>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -352,6 +421,166 @@ pub struct VolumeDefs {
     pub facies_probability: BTreeMap<String, PathBuf>,
 }
 
+/// Where Vp0, epsilon and delta of a log sample come from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ConditioningSource {
+    /// EPS/DELTA curves where a well has them, Backus averaging of Vp, Vs and density elsewhere.
+    Auto,
+    /// Only EPS/DELTA curves (wells without them give no epsilon or delta).
+    Curves,
+    /// Always Backus averaging, even where EPS/DELTA curves exist.
+    Backus,
+}
+
+/// Length of the Backus averaging window.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum BackusWindowSpec {
+    /// A fixed length, m.
+    Metres(f64),
+    /// From the Backus number `B = f L / Vs_min` (Liner and Fei 2007): `L = B Vs_min / f`.
+    BackusNumber {
+        /// Backus number B.
+        b: f64,
+        /// Dominant frequency f, Hz.
+        frequency: f64,
+    },
+}
+
+/// An intrinsic anisotropy term: a constant or a linear function of a named log.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum IntrinsicValue {
+    /// A constant.
+    Constant(f64),
+    /// `intercept + slope * log`, the log named by its LAS mnemonic (file units).
+    Linear {
+        /// LAS mnemonic.
+        log: String,
+        /// Intercept.
+        intercept: f64,
+        /// Slope per unit of the log.
+        slope: f64,
+    },
+}
+
+/// Intrinsic anisotropy of one facies, added to the layer-induced part.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct IntrinsicSpec {
+    /// Facies code.
+    pub facies: i32,
+    /// Added epsilon.
+    pub epsilon: Option<IntrinsicValue>,
+    /// Added delta.
+    pub delta: Option<IntrinsicValue>,
+}
+
+/// Well-conditioning settings.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Conditioning {
+    /// Source of epsilon and delta.
+    pub source: ConditioningSource,
+    /// Backus window.
+    pub window: BackusWindowSpec,
+    /// Intrinsic anisotropy per facies.
+    pub intrinsic: Vec<IntrinsicSpec>,
+}
+
+/// Default Backus window when none is given: 10 m (common practice for surface
+/// seismic frequencies, roughly B = 0.3 at 60 Hz and Vs 2000 m/s; from memory).
+pub const DEFAULT_BACKUS_WINDOW: f64 = 10.0;
+
+/// A kriging method.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum KrigingMethod {
+    /// Simple kriging around the zone mean of the blocked well data.
+    Simple,
+    /// Simple kriging around a linear depth trend fitted to the zone's well data.
+    SimpleTrend,
+    /// Ordinary kriging.
+    Ordinary,
+    /// Kriging with an external drift.
+    ExternalDrift,
+}
+
+impl KrigingMethod {
+    fn parse(s: &str) -> Option<Self> {
+        Some(match s.trim() {
+            "simple" => KrigingMethod::Simple,
+            "simple_trend" => KrigingMethod::SimpleTrend,
+            "ordinary" => KrigingMethod::Ordinary,
+            "external_drift" => KrigingMethod::ExternalDrift,
+            _ => return None,
+        })
+    }
+
+    /// The project-file spelling.
+    pub fn name(self) -> &'static str {
+        match self {
+            KrigingMethod::Simple => "simple",
+            KrigingMethod::SimpleTrend => "simple_trend",
+            KrigingMethod::Ordinary => "ordinary",
+            KrigingMethod::ExternalDrift => "external_drift",
+        }
+    }
+}
+
+/// The drift variable of external-drift kriging.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Drift {
+    /// The background Vp0 volume (Vp0 only).
+    BackgroundVp0,
+    /// Depth (m TVDSS).
+    Depth,
+}
+
+/// Kriging settings.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct KrigingSettings {
+    /// Most neighbours in all.
+    pub neighbours: usize,
+    /// Most neighbours from any one well.
+    pub per_well: usize,
+    /// Most wells contributing.
+    pub max_wells: usize,
+    /// Search radius in units of the variogram ranges.
+    pub search_radius: f64,
+    /// Method per property (vp0, epsilon, delta) and zone name; key "" is the default.
+    pub methods: BTreeMap<(String, String), KrigingMethod>,
+    /// Drift of external-drift kriging of Vp0.
+    pub vp0_drift: Drift,
+}
+
+impl KrigingSettings {
+    /// The method for a property ("vp0", "epsilon", "delta") in a zone.
+    pub fn method(&self, zone: &str, property: &str) -> KrigingMethod {
+        self.methods
+            .get(&(zone.to_string(), property.to_string()))
+            .or_else(|| self.methods.get(&(String::new(), property.to_string())))
+            .copied()
+            .unwrap_or(KrigingMethod::Ordinary)
+    }
+}
+
+/// Plausible ranges epsilon and delta are clipped to.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Bounds {
+    /// Epsilon range.
+    pub epsilon: (f64, f64),
+    /// Delta range.
+    pub delta: (f64, f64),
+}
+
+/// Default bounds: epsilon -0.05..0.5, delta -0.2..0.3 (common practice: the span of
+/// sedimentary rocks in Thomsen 1986, Table 1, with a margin).
+pub const DEFAULT_BOUNDS: Bounds = Bounds {
+    epsilon: (-0.05, 0.5),
+    delta: (-0.2, 0.3),
+};
+
 /// A checked project with resolved paths.
 #[derive(Debug, Clone, Serialize)]
 pub struct Project {
@@ -381,6 +610,16 @@ pub struct Project {
     pub facies: Vec<FaciesDef>,
     /// Input volumes.
     pub volumes: VolumeDefs,
+    /// Well conditioning.
+    pub conditioning: Conditioning,
+    /// Kriging.
+    pub kriging: KrigingSettings,
+    /// Clipping bounds of epsilon and delta.
+    pub bounds: Bounds,
+    /// Variogram settings per zone name and property, as written (checked by the
+    /// geostatistics module, which knows the model syntax).
+    #[serde(skip)]
+    pub variograms: BTreeMap<String, BTreeMap<String, toml::Value>>,
 }
 
 /// Default tie radius when `[tie]` is absent, m.
@@ -717,6 +956,227 @@ impl Project {
             facies_probability.insert(name.clone(), resolve(p));
         }
 
+        // conditioning
+        let conditioning = {
+            let c = raw.conditioning.clone();
+            let source = match c.as_ref().and_then(|c| c.source.as_deref()).map(str::trim) {
+                None | Some("auto") => ConditioningSource::Auto,
+                Some("curves") => ConditioningSource::Curves,
+                Some("backus") => ConditioningSource::Backus,
+                Some(o) => return Err(perr(format!(
+                    "conditioning.source: \"{o}\" is not a source; expected auto, curves or backus"
+                ))),
+            };
+            let pos = |key: &str, v: f64| -> Result<f64> {
+                if v.is_finite() && v > 0.0 {
+                    Ok(v)
+                } else {
+                    Err(perr(format!(
+                        "conditioning.{key}: expected a positive number, got {v}"
+                    )))
+                }
+            };
+            let window = match c.as_ref().map(|c| (c.backus_window, c.backus_number, c.dominant_frequency)) {
+                None | Some((None, None, None)) => BackusWindowSpec::Metres(DEFAULT_BACKUS_WINDOW),
+                Some((Some(l), None, None)) => BackusWindowSpec::Metres(pos("backus_window", l)?),
+                Some((None, Some(b), Some(f))) => BackusWindowSpec::BackusNumber {
+                    b: pos("backus_number", b)?,
+                    frequency: pos("dominant_frequency", f)?,
+                },
+                Some((None, _, _)) => {
+                    return Err(perr(
+                        "conditioning: backus_number and dominant_frequency go together (L = B * Vs_min / f)".into(),
+                    ))
+                }
+                Some((Some(_), _, _)) => {
+                    return Err(perr(
+                        "conditioning: give either backus_window (m) or backus_number with dominant_frequency, not both".into(),
+                    ))
+                }
+            };
+            let mut intrinsic = Vec::new();
+            for (k, i) in c.iter().flat_map(|c| c.intrinsic.iter()).enumerate() {
+                let Some(f) = facies.iter().find(|f| f.name == i.facies.trim()) else {
+                    return Err(perr(format!(
+                        "conditioning.intrinsic[{k}].facies: \"{}\" is not a facies name",
+                        i.facies
+                    )));
+                };
+                if intrinsic.iter().any(|x: &IntrinsicSpec| x.facies == f.code) {
+                    return Err(perr(format!(
+                        "conditioning.intrinsic[{k}]: facies \"{}\" is given twice",
+                        f.name
+                    )));
+                }
+                let conv = |v: &Option<RawIntrinsicValue>| -> Option<IntrinsicValue> {
+                    v.as_ref().map(|v| match v {
+                        RawIntrinsicValue::Constant(c) => IntrinsicValue::Constant(*c),
+                        RawIntrinsicValue::Linear(l) => IntrinsicValue::Linear {
+                            log: l.log.trim().to_string(),
+                            intercept: l.intercept,
+                            slope: l.slope,
+                        },
+                    })
+                };
+                intrinsic.push(IntrinsicSpec {
+                    facies: f.code,
+                    epsilon: conv(&i.epsilon),
+                    delta: conv(&i.delta),
+                });
+            }
+            Conditioning {
+                source,
+                window,
+                intrinsic,
+            }
+        };
+
+        // kriging
+        let kriging = {
+            let k = raw.kriging.clone();
+            let count = |key: &str, v: Option<i64>, d: usize| -> Result<usize> {
+                match v {
+                    None => Ok(d),
+                    Some(n) if n >= 1 && n <= 1000 => Ok(n as usize),
+                    Some(n) => Err(perr(format!(
+                        "kriging.{key}: expected a whole number 1..1000, got {n}"
+                    ))),
+                }
+            };
+            let neighbours = count("neighbours", k.as_ref().and_then(|k| k.neighbours), 32)?;
+            let per_well = count("per_well", k.as_ref().and_then(|k| k.per_well), 8)?;
+            let max_wells = count("max_wells", k.as_ref().and_then(|k| k.max_wells), 8)?;
+            let search_radius = match k.as_ref().and_then(|k| k.search_radius) {
+                None => 3.0,
+                Some(r) if r.is_finite() && r > 0.0 => r,
+                Some(r) => return Err(perr(format!("kriging.search_radius: expected a positive number of variogram ranges, got {r}"))),
+            };
+            let mut methods = BTreeMap::new();
+            let mut put = |zone: &str, prop: &str, v: &Option<String>, key: String| -> Result<()> {
+                if let Some(m) = v {
+                    let km = KrigingMethod::parse(m).ok_or_else(|| {
+                        perr(format!(
+                            "{key}: \"{m}\" is not a kriging method; expected simple, simple_trend, ordinary or external_drift"
+                        ))
+                    })?;
+                    methods.insert((zone.to_string(), prop.to_string()), km);
+                }
+                Ok(())
+            };
+            put(
+                "",
+                "vp0",
+                &Some(k.as_ref().and_then(|k| k.vp0.clone()).unwrap_or_else(|| {
+                    if raw.volumes.background_vp0.is_some() {
+                        "external_drift".into()
+                    } else {
+                        "ordinary".into()
+                    }
+                })),
+                "kriging.vp0".into(),
+            )?;
+            put(
+                "",
+                "epsilon",
+                &k.as_ref().and_then(|k| k.epsilon.clone()),
+                "kriging.epsilon".into(),
+            )?;
+            put(
+                "",
+                "delta",
+                &k.as_ref().and_then(|k| k.delta.clone()),
+                "kriging.delta".into(),
+            )?;
+            if let Some(k) = &k {
+                for (zn, z) in &k.zones {
+                    if !zones.iter().any(|d| &d.name == zn) {
+                        return Err(perr(format!("kriging.zones.{zn}: no zone of that name")));
+                    }
+                    put(zn, "vp0", &z.vp0, format!("kriging.zones.{zn}.vp0"))?;
+                    put(
+                        zn,
+                        "epsilon",
+                        &z.epsilon,
+                        format!("kriging.zones.{zn}.epsilon"),
+                    )?;
+                    put(zn, "delta", &z.delta, format!("kriging.zones.{zn}.delta"))?;
+                }
+            }
+            let vp0_drift = match k
+                .as_ref()
+                .and_then(|k| k.vp0_drift.as_deref())
+                .map(str::trim)
+            {
+                None => {
+                    if raw.volumes.background_vp0.is_some() {
+                        Drift::BackgroundVp0
+                    } else {
+                        Drift::Depth
+                    }
+                }
+                Some("background_vp0") => {
+                    if raw.volumes.background_vp0.is_none() {
+                        return Err(perr(
+                            "kriging.vp0_drift = \"background_vp0\" needs [volumes.background_vp0]"
+                                .into(),
+                        ));
+                    }
+                    Drift::BackgroundVp0
+                }
+                Some("depth") => Drift::Depth,
+                Some(o) => return Err(perr(format!(
+                    "kriging.vp0_drift: \"{o}\" is not a drift; expected background_vp0 or depth"
+                ))),
+            };
+            KrigingSettings {
+                neighbours,
+                per_well: per_well.min(neighbours),
+                max_wells,
+                search_radius,
+                methods,
+                vp0_drift,
+            }
+        };
+
+        // bounds
+        let bounds = {
+            let b = raw.bounds.clone();
+            let check = |key: &str, v: Option<(f64, f64)>, d: (f64, f64)| -> Result<(f64, f64)> {
+                match v {
+                    None => Ok(d),
+                    Some((lo, hi)) if lo.is_finite() && hi.is_finite() && lo < hi => Ok((lo, hi)),
+                    Some((lo, hi)) => Err(perr(format!(
+                        "bounds.{key}: expected [low, high] with low < high, got [{lo}, {hi}]"
+                    ))),
+                }
+            };
+            Bounds {
+                epsilon: check(
+                    "epsilon",
+                    b.as_ref().and_then(|b| b.epsilon),
+                    DEFAULT_BOUNDS.epsilon,
+                )?,
+                delta: check(
+                    "delta",
+                    b.as_ref().and_then(|b| b.delta),
+                    DEFAULT_BOUNDS.delta,
+                )?,
+            }
+        };
+
+        for (zn, props) in &raw.variograms {
+            if !zones.iter().any(|d| &d.name == zn) {
+                return Err(perr(format!("variograms.{zn}: no zone of that name")));
+            }
+            for p in props.keys() {
+                if !["vp0", "epsilon", "delta"].contains(&p.as_str()) {
+                    return Err(perr(format!(
+                        "variograms.{zn}.{p}: not a property; expected vp0, epsilon or delta"
+                    )));
+                }
+            }
+        }
+
         Ok(Project {
             path: path.to_path_buf(),
             name: raw.name.unwrap_or_else(|| {
@@ -739,6 +1199,10 @@ impl Project {
                 facies: facies_vol,
                 facies_probability,
             },
+            conditioning,
+            kriging,
+            bounds,
+            variograms: raw.variograms,
         })
     }
 

@@ -179,7 +179,14 @@ mod tests {
     fn slowness_average_keeps_travel_time() {
         // Two equal-thickness samples at 2000 and 4000 m/s: travel time per metre
         // (1/2000 + 1/4000) / 2 = 3/8000 s, so the average velocity is 8000/3 m/s.
-        let b = block_well(3, &[s(1, 2000.0, 0.1, 2), s(1, 4000.0, 0.3, 1), s(2, 3000.0, 0.0, 1)]);
+        let b = block_well(
+            3,
+            &[
+                s(1, 2000.0, 0.1, 2),
+                s(1, 4000.0, 0.3, 1),
+                s(2, 3000.0, 0.0, 1),
+            ],
+        );
         assert_eq!(b.len(), 2);
         assert!((b[0].vp0.unwrap() - 8000.0 / 3.0).abs() < 1e-9);
         assert!((b[0].epsilon.unwrap() - 0.2).abs() < 1e-12);

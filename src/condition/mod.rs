@@ -3,5 +3,5 @@
 //! blocking into stratigraphic cells.
 
 pub mod backus;
-pub mod thomsen;
 pub mod blocking;
+pub mod thomsen;

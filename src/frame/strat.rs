@@ -158,7 +158,13 @@ impl StratFrame {
     }
 
     /// Zone and stratigraphic coordinate of grid cell (i, j, k).
-    pub fn locate_cell(&self, grid: &SurveyGrid, i: usize, j: usize, k: usize) -> Option<StratPosition> {
+    pub fn locate_cell(
+        &self,
+        grid: &SurveyGrid,
+        i: usize,
+        j: usize,
+        k: usize,
+    ) -> Option<StratPosition> {
         let z = grid.z_at(k);
         for (zf, (top, base)) in self.zones.iter().zip(&self.bounds) {
             let (Some(t), Some(b)) = (top.z_at_node(i, j), base.z_at_node(i, j)) else {
@@ -219,7 +225,11 @@ mod tests {
 
     #[test]
     fn z_of_inverts_s_at() {
-        for l in [Layering::Proportional, Layering::ParallelToTop, Layering::ParallelToBase] {
+        for l in [
+            Layering::Proportional,
+            Layering::ParallelToTop,
+            Layering::ParallelToBase,
+        ] {
             let f = frame(l);
             for z in [1000.0, 1003.5, 1039.0] {
                 let s = f.s_at(z, 1000.0, 1040.0).unwrap();
