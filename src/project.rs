@@ -1037,7 +1037,7 @@ impl Project {
             let count = |key: &str, v: Option<i64>, d: usize| -> Result<usize> {
                 match v {
                     None => Ok(d),
-                    Some(n) if n >= 1 && n <= 1000 => Ok(n as usize),
+                    Some(n) if (1..=1000).contains(&n) => Ok(n as usize),
                     Some(n) => Err(perr(format!(
                         "kriging.{key}: expected a whole number 1..1000, got {n}"
                     ))),

@@ -78,7 +78,7 @@ impl ZoneFrame {
     /// other horizon, or a zone of zero thickness).
     pub fn z_of(&self, s: f64, z_top: f64, z_base: f64) -> Option<f64> {
         let t = z_base - z_top;
-        if !(t > 0.0) || s < 0.0 {
+        if t.is_nan() || t <= 0.0 || s < 0.0 {
             return None;
         }
         let z = match self.layering {
