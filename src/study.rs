@@ -53,6 +53,9 @@ pub struct Well {
     pub logs: BTreeMap<CurveProperty, PropertyLog>,
     /// Tops on the project's horizons.
     pub tops: Vec<WellTop>,
+    /// Further LAS curves the project names (e.g. in intrinsic-anisotropy
+    /// relations), by mnemonic as written in the project, in file units.
+    pub extra_logs: BTreeMap<String, Vec<Option<f64>>>,
 }
 
 impl Well {
@@ -118,6 +121,14 @@ fn progress_bar(show: bool, len: u64) -> ProgressBar {
     pb
 }
 
+impl Study {
+    /// The stratigraphic frame of the study's zones on its final horizons.
+    pub fn strat_frame(&self) -> crate::frame::strat::StratFrame {
+        let surfaces: Vec<&Surface> = self.horizons.iter().map(|h| &h.surface).collect();
+        crate::frame::strat::StratFrame::new(&self.project.zones, &surfaces)
+    }
+}
+
 /// Read one well's LAS and survey, map its curves and position its samples.
 fn load_well(project: &Project, entry: &WellEntry, warnings: &mut Vec<String>) -> Result<Well> {
     let las: LasFile = read_las(&entry.las)?;
@@ -165,6 +176,21 @@ fn load_well(project: &Project, entry: &WellEntry, warnings: &mut Vec<String>) -
         &md,
     )?;
     warnings.extend(w);
+    let mut extra_logs = BTreeMap::new();
+    for spec in &project.conditioning.intrinsic {
+        for v in [&spec.epsilon, &spec.delta].into_iter().flatten() {
+            if let crate::project::IntrinsicValue::Linear { log, .. } = v {
+                let c = las.curve(log).ok_or_else(|| {
+                    Error::inconsistent(format!(
+                        "well {} ({}): the intrinsic-anisotropy relation names curve {log}, which the file does not have",
+                        entry.name,
+                        entry.las.display()
+                    ))
+                })?;
+                extra_logs.insert(log.clone(), c.data.clone());
+            }
+        }
+    }
     let points: Vec<WellPoint> = md.iter().map(|&m| path.point_at_md(m)).collect();
     Ok(Well {
         entry: entry.clone(),
@@ -179,6 +205,7 @@ fn load_well(project: &Project, entry: &WellEntry, warnings: &mut Vec<String>) -
         points,
         logs,
         tops: Vec::new(),
+        extra_logs,
     })
 }
 

@@ -5,3 +5,4 @@
 pub mod backus;
 pub mod blocking;
 pub mod thomsen;
+pub mod logs;
