@@ -6,3 +6,4 @@ pub mod backus;
 pub mod blocking;
 pub mod thomsen;
 pub mod logs;
+pub mod output;
