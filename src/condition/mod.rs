@@ -3,4 +3,5 @@
 //! blocking into stratigraphic cells.
 
 pub mod backus;
+pub mod intrinsic;
 pub mod thomsen;
