@@ -16,6 +16,7 @@
 //! Units are SI inside (m, m/s, kg/m3); conversion happens at the edges.
 
 pub mod check;
+pub mod commands;
 pub mod condition;
 pub mod demo;
 pub mod error;

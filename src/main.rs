@@ -28,6 +28,21 @@ enum Command {
         #[arg(long, short, conflicts_with = "json")]
         quiet: bool,
     },
+    /// Condition the wells (Vp0, epsilon, delta, zone, stratigraphic coordinate,
+    /// facies per sample) and write each as LAS 2.0.
+    Condition {
+        /// The project file (TOML).
+        project: PathBuf,
+        /// Folder to write the LAS files into.
+        #[arg(long)]
+        out: PathBuf,
+        /// Print the summary as JSON.
+        #[arg(long)]
+        json: bool,
+        /// Print nothing but errors.
+        #[arg(long, short, conflicts_with = "json")]
+        quiet: bool,
+    },
     /// Show what the tool reads from one input file.
     Inspect {
         /// The file: LAS, SEG-Y, horizon picks, well table, deviation survey or tops.
@@ -86,6 +101,20 @@ fn run(cli: Cli) -> anyhow::Result<()> {
         } => {
             let progress = !quiet && !json && std::io::stderr().is_terminal();
             let report = stratiprior::check::run(&project, progress)?;
+            if json {
+                println!("{}", serde_json::to_string_pretty(&report)?);
+            } else if !quiet {
+                print!("{}", report.render_text());
+            }
+        }
+        Command::Condition {
+            project,
+            out,
+            json,
+            quiet,
+        } => {
+            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let report = stratiprior::commands::condition::run(&project, &out, progress)?;
             if json {
                 println!("{}", serde_json::to_string_pretty(&report)?);
             } else if !quiet {

@@ -963,9 +963,11 @@ impl Project {
                 None | Some("auto") => ConditioningSource::Auto,
                 Some("curves") => ConditioningSource::Curves,
                 Some("backus") => ConditioningSource::Backus,
-                Some(o) => return Err(perr(format!(
+                Some(o) => {
+                    return Err(perr(format!(
                     "conditioning.source: \"{o}\" is not a source; expected auto, curves or backus"
-                ))),
+                )))
+                }
             };
             let pos = |key: &str, v: f64| -> Result<f64> {
                 if v.is_finite() && v > 0.0 {
@@ -1124,9 +1126,11 @@ impl Project {
                     Drift::BackgroundVp0
                 }
                 Some("depth") => Drift::Depth,
-                Some(o) => return Err(perr(format!(
+                Some(o) => {
+                    return Err(perr(format!(
                     "kriging.vp0_drift: \"{o}\" is not a drift; expected background_vp0 or depth"
-                ))),
+                )))
+                }
             };
             KrigingSettings {
                 neighbours,

@@ -16,7 +16,9 @@
 
 use crate::condition::backus::{backus_log, BackusLogOptions, WindowLength};
 use crate::condition::blocking::{block_well, BlockedSample, CondSample};
-use crate::condition::intrinsic::{add_intrinsic, intrinsic_anisotropy, FaciesIntrinsic, IntrinsicTerm, NamedLog};
+use crate::condition::intrinsic::{
+    add_intrinsic, intrinsic_anisotropy, FaciesIntrinsic, IntrinsicTerm, NamedLog,
+};
 use crate::error::{Error, Result};
 use crate::frame::strat::{StratFrame, StratPosition};
 use crate::ingest::wells::WellPoint;
@@ -147,10 +149,7 @@ pub fn condition_well(study: &Study, frame: &StratFrame, wi: usize) -> Result<Co
             let named: Vec<NamedLog<'_>> = w
                 .extra_logs
                 .iter()
-                .map(|(k, v)| NamedLog {
-                    name: k,
-                    values: v,
-                })
+                .map(|(k, v)| NamedLog { name: k, values: v })
                 .collect();
             let intr = intrinsic_anisotropy(&name, &facies, &rules, &named)?;
             eps = add_intrinsic(&name, &eps, &intr.epsilon)?;
@@ -166,19 +165,34 @@ pub fn condition_well(study: &Study, frame: &StratFrame, wi: usize) -> Result<Co
     } else if has_curves {
         (
             vp.to_vec(),
-            log(CurveProperty::Epsilon).map(<[_]>::to_vec).unwrap_or_default(),
-            log(CurveProperty::Delta).map(<[_]>::to_vec).unwrap_or_default(),
+            log(CurveProperty::Epsilon)
+                .map(<[_]>::to_vec)
+                .unwrap_or_default(),
+            log(CurveProperty::Delta)
+                .map(<[_]>::to_vec)
+                .unwrap_or_default(),
             AnisotropySource::Curves,
             None,
         )
     } else {
-        notes.push("no EPS/DELTA curves and no Vs and density: epsilon and delta are missing".into());
-        (vp.to_vec(), vec![None; n], vec![None; n], AnisotropySource::Missing, None)
+        notes.push(
+            "no EPS/DELTA curves and no Vs and density: epsilon and delta are missing".into(),
+        );
+        (
+            vp.to_vec(),
+            vec![None; n],
+            vec![None; n],
+            AnisotropySource::Missing,
+            None,
+        )
     };
 
     let g = &p.grid;
-    let strat: Vec<Option<StratPosition>> =
-        w.points.iter().map(|q| frame.locate(g, q.x, q.y, q.z)).collect();
+    let strat: Vec<Option<StratPosition>> = w
+        .points
+        .iter()
+        .map(|q| frame.locate(g, q.x, q.y, q.z))
+        .collect();
     let samples: Vec<CondSample> = (0..n)
         .filter_map(|k| {
             let sp = strat[k]?;

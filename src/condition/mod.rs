@@ -4,6 +4,7 @@
 
 pub mod backus;
 pub mod blocking;
-pub mod thomsen;
+pub mod intrinsic;
 pub mod logs;
 pub mod output;
+pub mod thomsen;

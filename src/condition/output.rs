@@ -16,12 +16,38 @@ pub const LAS_NULL: f64 = -999.25;
 /// A file-name-safe version of a well name.
 pub fn file_stem(name: &str) -> String {
     name.chars()
-        .map(|c| if c.is_ascii_alphanumeric() || c == '-' || c == '_' || c == '.' { c } else { '_' })
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || c == '-' || c == '_' || c == '.' {
+                c
+            } else {
+                '_'
+            }
+        })
         .collect()
 }
 
+fn curve<'a>(
+    mnemonic: &'a str,
+    unit: &'a str,
+    description: &'a str,
+    data: &'a [Option<f64>],
+    decimals: Decimals,
+) -> WriteCurve<'a> {
+    WriteCurve {
+        mnemonic,
+        unit,
+        description,
+        data,
+        decimals,
+    }
+}
+
 /// Write one conditioned well into `dir`; returns the path written.
-pub fn write_conditioned_las(dir: &Path, w: &ConditionedWell, zone_names: &[String]) -> Result<PathBuf> {
+pub fn write_conditioned_las(
+    dir: &Path,
+    w: &ConditionedWell,
+    zone_names: &[String],
+) -> Result<PathBuf> {
     let path = dir.join(format!("{}.las", file_stem(&w.name)));
     let opt = |v: &[f64]| v.iter().map(|&x| Some(x)).collect::<Vec<_>>();
     let md = opt(&w.md);
@@ -32,28 +58,54 @@ pub fn write_conditioned_las(dir: &Path, w: &ConditionedWell, zone_names: &[Stri
     let s: Vec<Option<f64>> = w.strat.iter().map(|s| s.map(|s| s.s)).collect();
     let layer: Vec<Option<f64>> = w.strat.iter().map(|s| s.map(|s| s.layer as f64)).collect();
     let facies: Vec<Option<f64>> = w.facies.iter().map(|f| f.map(f64::from)).collect();
-    let curve = |m: &'static str, u: &'static str, d: &'static str, data: &'_ [Option<f64>], dec: Decimals| WriteCurve {
-        mnemonic: m,
-        unit: u,
-        description: d,
-        data,
-        decimals: dec,
-    };
     let curves = [
         curve("DEPT", "M", "measured depth", &md, Decimals::Shortest),
-        curve("TVDSS", "M", "true vertical depth below sea level", &tvd, Decimals::Fixed(3)),
+        curve(
+            "TVDSS",
+            "M",
+            "true vertical depth below sea level",
+            &tvd,
+            Decimals::Fixed(3),
+        ),
         curve("X", "M", "world x", &x, Decimals::Fixed(2)),
         curve("Y", "M", "world y", &y, Decimals::Fixed(2)),
-        curve("VP0", "M/S", "vertical P velocity", &w.vp0, Decimals::Fixed(2)),
+        curve(
+            "VP0",
+            "M/S",
+            "vertical P velocity",
+            &w.vp0,
+            Decimals::Fixed(2),
+        ),
         curve("EPS", "", "Thomsen epsilon", &w.epsilon, Decimals::Fixed(5)),
         curve("DELTA", "", "Thomsen delta", &w.delta, Decimals::Fixed(5)),
-        curve("ZONE", "", "zone index (manifest order)", &zone, Decimals::Fixed(0)),
-        curve("STRAT_S", "M", "stratigraphic coordinate in the zone", &s, Decimals::Fixed(3)),
-        curve("LAYER", "", "stratigraphic layer index in the zone", &layer, Decimals::Fixed(0)),
+        curve(
+            "ZONE",
+            "",
+            "zone index (manifest order)",
+            &zone,
+            Decimals::Fixed(0),
+        ),
+        curve(
+            "STRAT_S",
+            "M",
+            "stratigraphic coordinate in the zone",
+            &s,
+            Decimals::Fixed(3),
+        ),
+        curve(
+            "LAYER",
+            "",
+            "stratigraphic layer index in the zone",
+            &layer,
+            Decimals::Fixed(0),
+        ),
         curve("FACIES", "", "facies code", &facies, Decimals::Fixed(0)),
     ];
     let source = format!("{:?}", w.source).to_ascii_lowercase();
-    let window = w.backus_window.map(|l| format!("{l:.3}")).unwrap_or_else(|| "none".into());
+    let window = w
+        .backus_window
+        .map(|l| format!("{l:.3}"))
+        .unwrap_or_else(|| "none".into());
     let zones = zone_names
         .iter()
         .enumerate()
