@@ -27,6 +27,7 @@ pub mod grid;
 pub mod ingest;
 pub mod inspect;
 pub mod io_util;
+pub mod prior;
 pub mod project;
 pub mod study;
 pub mod units;

@@ -1,0 +1,627 @@
+//! `stratiprior build`: mean and standard-deviation volumes of Vp0, epsilon and
+//! delta and a zone-index volume, by kriging in stratigraphic coordinates.
+//!
+//! For every zone and property:
+//!
+//! 1. the blocked well samples of the zone ([`crate::condition`]) become kriging
+//!    data at `(x, y, s)`;
+//! 2. a variogram model is fitted to them or taken from the project
+//!    ([`super::variograms`]);
+//! 3. targets are the centres of the zone's stratigraphic layers in every map
+//!    column, so that the kriging configuration repeats layer after layer and
+//!    the kriging weights are reused wherever it does;
+//! 4. each depth sample of the survey grid takes the value of its zone and
+//!    stratigraphic coordinate, interpolated linearly in `s` between layer
+//!    centres (nearest layer beyond the first and last centre).
+//!
+//! The standard deviation is the square root of the kriging variance. Epsilon
+//! and delta means are clipped to the project's bounds, and clipped cells are
+//! counted. Cells outside every zone hold zone index -1, standard deviations 0,
+//! epsilon and delta 0, and Vp0 from the background volume where one is given
+//! (else 0): inversion codes should mask them with the zone volume.
+//!
+//! Volumes are computed and written inline by inline, so memory does not grow
+//! with the number of inlines.
+
+use super::manifest::{Manifest, ManifestFile, ManifestVolume, OutsideFill};
+use super::variograms::{zone_property_variogram, VariogramRecord};
+use super::volume_sampling::{sample_volume, trace_at_depth};
+use crate::condition::blocking::BlockedSample;
+use crate::condition::logs::condition_all;
+use crate::error::{Error, Result};
+use crate::formats::segy::{SegyWriter, VolumeMeta};
+use crate::geostat::kriging::{Kriger, KrigingKind, KrigingStats, Note, Sample, SampleSet, Target};
+use crate::geostat::neighbourhood::NeighbourhoodParams;
+use crate::geostat::variogram::VariogramModel;
+use crate::geostat::CovarianceModel;
+use crate::io_util::{refuse_overwrite_input, write_atomic};
+use crate::project::{Drift, KrigingMethod};
+use crate::study::{load, Study};
+use indicatif::{ProgressBar, ProgressStyle};
+use rayon::prelude::*;
+use serde::Serialize;
+use std::fmt::Write as _;
+use std::path::{Path, PathBuf};
+
+/// The kriged properties, in volume order.
+pub const PROPERTIES: [&str; 3] = ["vp0", "epsilon", "delta"];
+
+/// Options of a build.
+#[derive(Debug, Clone)]
+pub struct BuildOptions {
+    /// Output folder (the project's `output` when `None`).
+    pub out: Option<PathBuf>,
+    /// Worker threads (rayon's default when `None`).
+    pub threads: Option<usize>,
+    /// Show progress bars.
+    pub progress: bool,
+}
+
+/// What was done for one zone and property.
+#[derive(Debug, Clone, Serialize)]
+pub struct ZonePropertyReport {
+    /// Zone name.
+    pub zone: String,
+    /// Property.
+    pub property: String,
+    /// Kriging method.
+    pub method: String,
+    /// Drift, for external-drift kriging.
+    pub drift: Option<String>,
+    /// Blocked samples used.
+    pub samples: usize,
+    /// Wells contributing.
+    pub wells: usize,
+    /// Mean of the samples (SI).
+    pub data_mean: f64,
+    /// Variogram.
+    pub variogram: VariogramRecord,
+    /// Targets kriged (layer centres).
+    pub targets: u64,
+    /// Kriging systems solved.
+    pub solves: u64,
+    /// Targets whose weights were reused.
+    pub reuses: u64,
+    /// Targets with no neighbour in the search (filled with the zone mean and the sill).
+    pub no_neighbours: u64,
+    /// External-drift targets that fell back to ordinary kriging.
+    pub drift_fallbacks: u64,
+    /// Depth cells clipped to the bounds (epsilon, delta).
+    pub clipped_cells: u64,
+}
+
+/// What `build` did.
+#[derive(Debug, Clone, Serialize)]
+pub struct BuildReport {
+    /// Output folder.
+    pub out: PathBuf,
+    /// The manifest written.
+    pub manifest: PathBuf,
+    /// Per zone and property.
+    pub zones: Vec<ZonePropertyReport>,
+    /// Depth cells inside a zone.
+    pub cells_in_zones: u64,
+    /// Depth cells outside every zone.
+    pub cells_outside: u64,
+    /// Warnings.
+    pub warnings: Vec<String>,
+}
+
+struct ZoneProperty {
+    zone: usize,
+    prop: usize,
+    model: VariogramModel,
+    samples: SampleSet,
+    kind: KrigingKind,
+    method: KrigingMethod,
+    drift: Option<Drift>,
+    trend: Option<(f64, f64)>,
+    mean: f64,
+    report: ZonePropertyReport,
+}
+
+fn value_of(b: &BlockedSample, prop: usize) -> Option<f64> {
+    match prop {
+        0 => b.vp0,
+        1 => b.epsilon,
+        _ => b.delta,
+    }
+}
+
+/// Least-squares line `v = a + b z`; `None` with fewer than 2 distinct depths.
+fn depth_trend(points: &[(f64, f64)]) -> Option<(f64, f64)> {
+    let n = points.len() as f64;
+    if points.len() < 2 {
+        return None;
+    }
+    let mz = points.iter().map(|p| p.0).sum::<f64>() / n;
+    let mv = points.iter().map(|p| p.1).sum::<f64>() / n;
+    let szz: f64 = points.iter().map(|p| (p.0 - mz).powi(2)).sum();
+    if szz <= 1e-12 * n {
+        return None;
+    }
+    let szv: f64 = points.iter().map(|p| (p.0 - mz) * (p.1 - mv)).sum();
+    let b = szv / szz;
+    Some((mv - b * mz, b))
+}
+
+/// Run a build of the project at `project`.
+pub fn build(project: &Path, opts: &BuildOptions) -> Result<BuildReport> {
+    match opts.threads {
+        Some(n) => {
+            let pool = rayon::ThreadPoolBuilder::new()
+                .num_threads(n.max(1))
+                .build()
+                .map_err(|e| Error::inconsistent(format!("cannot start {n} threads: {e}")))?;
+            pool.install(|| build_inner(project, opts))
+        }
+        None => build_inner(project, opts),
+    }
+}
+
+fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> {
+    let study = load(project_path, opts.progress)?;
+    let p = &study.project;
+    let g = &p.grid;
+    let out = opts.out.clone().unwrap_or_else(|| p.output.clone());
+    let frame = study.strat_frame();
+    let wells = condition_all(&study, &frame)?;
+    let blocked: Vec<&BlockedSample> = wells.iter().flat_map(|w| w.blocked.iter()).collect();
+    let background = study.volumes.iter().find(|v| v.role == "background_vp0");
+    let mut warnings: Vec<String> = study.warnings.clone();
+    for w in &wells {
+        for n in &w.notes {
+            warnings.push(format!("well {}: {n}", w.name));
+        }
+    }
+
+    // kriging data, variograms and krigers per zone and property
+    let mut zps: Vec<ZoneProperty> = Vec::new();
+    for (zi, zdef) in p.zones.iter().enumerate() {
+        for (pi, pname) in PROPERTIES.iter().enumerate() {
+            let rows: Vec<&BlockedSample> = blocked
+                .iter()
+                .copied()
+                .filter(|b| b.zone == zi && value_of(b, pi).is_some())
+                .collect();
+            if rows.is_empty() {
+                return Err(Error::inconsistent(format!(
+                    "zone {}: no well has {pname} data in this zone; kriging needs at least one blocked sample",
+                    zdef.name
+                )));
+            }
+            let mut method = p.kriging.method(&zdef.name, pname);
+            let drift = match method {
+                KrigingMethod::ExternalDrift => Some(if pi == 0 { p.kriging.vp0_drift } else { Drift::Depth }),
+                _ => None,
+            };
+            if drift == Some(Drift::BackgroundVp0) && background.is_none() {
+                return Err(Error::inconsistent(format!(
+                    "zone {}: {pname} uses the background Vp0 as drift, but [volumes.background_vp0] is not given",
+                    zdef.name
+                )));
+            }
+            let drift_at = |x: f64, y: f64, z: f64| -> Option<f64> {
+                match drift? {
+                    Drift::Depth => Some(z),
+                    Drift::BackgroundVp0 => sample_volume(g, &background?.data, x, y, z),
+                }
+            };
+            let values: Vec<(f64, f64)> = rows.iter().map(|b| (b.z, value_of(b, pi).unwrap_or(f64::NAN))).collect();
+            let mean = values.iter().map(|v| v.1).sum::<f64>() / values.len() as f64;
+            let mut trend = None;
+            if method == KrigingMethod::SimpleTrend {
+                trend = depth_trend(&values);
+                if trend.is_none() {
+                    warnings.push(format!(
+                        "zone {} {pname}: no depth trend can be fitted (samples at one depth); simple kriging with the zone mean instead",
+                        zdef.name
+                    ));
+                    method = KrigingMethod::Simple;
+                }
+            }
+            let mut samples = Vec::with_capacity(rows.len());
+            for b in &rows {
+                let mut s = Sample::new(b.well as u32, b.layer as i32, [b.x, b.y, b.s], value_of(b, pi).unwrap_or(f64::NAN));
+                if drift.is_some() {
+                    s.drift = Some(drift_at(b.x, b.y, b.z).ok_or_else(|| {
+                        Error::inconsistent(format!(
+                            "well {}: a blocked sample at x {:.1} y {:.1} is outside the background volume",
+                            study.wells[b.well].name(),
+                            b.x,
+                            b.y
+                        ))
+                    })?);
+                }
+                if let Some((a, bb)) = trend {
+                    s.trend = Some(a + bb * b.z);
+                }
+                samples.push(s);
+            }
+            // residuals for the variogram: from the drift regression, the trend or the mean
+            let residuals: Vec<f64> = match (drift, trend) {
+                (Some(_), _) => {
+                    let pts: Vec<(f64, f64)> = samples.iter().map(|s| (s.drift.unwrap_or(0.0), s.value)).collect();
+                    match depth_trend(&pts) {
+                        Some((a, b)) => pts.iter().map(|(d, v)| v - (a + b * d)).collect(),
+                        None => samples.iter().map(|s| s.value - mean).collect(),
+                    }
+                }
+                (None, Some(_)) => samples.iter().map(|s| s.value - s.trend.unwrap_or(mean)).collect(),
+                (None, None) => samples.iter().map(|s| s.value - mean).collect(),
+            };
+            let (model, record) = zone_property_variogram(&study, &frame, zi, pname, &samples, &residuals, (pi == 0).then_some(background).flatten())?;
+            warnings.extend(record.warnings.iter().map(|w| format!("zone {} {pname}: {w}", zdef.name)));
+            let kind = match method {
+                KrigingMethod::Simple => KrigingKind::SimpleMean(mean),
+                KrigingMethod::SimpleTrend => KrigingKind::SimpleTrend,
+                KrigingMethod::Ordinary => KrigingKind::Ordinary,
+                KrigingMethod::ExternalDrift => KrigingKind::ExternalDrift,
+            };
+            let nwells = {
+                let mut w: Vec<usize> = rows.iter().map(|b| b.well).collect();
+                w.sort_unstable();
+                w.dedup();
+                w.len()
+            };
+            let report = ZonePropertyReport {
+                zone: zdef.name.clone(),
+                property: pname.to_string(),
+                method: method.name().into(),
+                drift: drift.map(|d| match d {
+                    Drift::BackgroundVp0 => "background_vp0".to_string(),
+                    Drift::Depth => "depth".to_string(),
+                }),
+                samples: rows.len(),
+                wells: nwells,
+                data_mean: mean,
+                variogram: record,
+                targets: 0,
+                solves: 0,
+                reuses: 0,
+                no_neighbours: 0,
+                drift_fallbacks: 0,
+                clipped_cells: 0,
+            };
+            zps.push(ZoneProperty {
+                zone: zi,
+                prop: pi,
+                model,
+                samples: SampleSet::new(samples)?,
+                kind,
+                method,
+                drift,
+                trend,
+                mean,
+                report,
+            });
+        }
+    }
+
+    let params = NeighbourhoodParams::per_well(
+        p.kriging.per_well,
+        p.kriging.max_wells,
+        p.kriging.neighbours,
+        p.kriging.search_radius,
+    );
+    let krigers: Vec<Kriger<'_, VariogramModel>> = zps
+        .iter()
+        .map(|zp| Kriger::new(&zp.samples, &zp.model, params, zp.kind))
+        .collect::<Result<_>>()?;
+
+    // output files
+    let inputs = p.input_paths();
+    let vol_dir = out.join("volumes");
+    let mut metas: Vec<(String, String, String, PathBuf)> = Vec::new();
+    for (prop, unit) in [("vp0", "m/s"), ("epsilon", "1"), ("delta", "1")] {
+        for stat in ["mean", "std"] {
+            metas.push((prop.into(), stat.into(), unit.into(), vol_dir.join(format!("{prop}_{stat}.sgy"))));
+        }
+    }
+    metas.push(("zone".into(), "value".into(), "index".into(), vol_dir.join("zone.sgy")));
+    let manifest_path = out.join("manifest.json");
+    for (_, _, _, path) in &metas {
+        refuse_overwrite_input(path, &inputs)?;
+    }
+    refuse_overwrite_input(&manifest_path, &inputs)?;
+    let mut writers = Vec::with_capacity(metas.len());
+    for (prop, stat, unit, path) in &metas {
+        let mut notes = vec![format!("project {}", p.name)];
+        if prop == "zone" {
+            notes.push("zone index from 0 as in manifest.json; -1 outside every zone".into());
+        } else {
+            notes.push("outside every zone: see manifest.json outside_zones".into());
+        }
+        writers.push(SegyWriter::create(
+            path,
+            g,
+            &VolumeMeta {
+                property: prop.clone(),
+                statistic: stat.clone(),
+                unit: unit.clone(),
+                notes,
+            },
+        )?);
+    }
+
+    let pb = if opts.progress {
+        let pb = ProgressBar::new(g.inline_count as u64);
+        if let Ok(st) = ProgressStyle::with_template("{spinner} kriging inline {pos}/{len} {bar:30} {eta}") {
+            pb.set_style(st);
+        }
+        pb
+    } else {
+        ProgressBar::hidden()
+    };
+
+    let nz = g.z_count;
+    let nj = g.xline_count;
+    let mut cells_in = 0u64;
+    let mut cells_out = 0u64;
+    let mut stats: Vec<KrigingStats> = vec![KrigingStats::default(); zps.len()];
+    let mut clipped = vec![0u64; zps.len()];
+    let nzones = p.zones.len();
+    for i in 0..g.inline_count {
+        // layer centres per zone and column: (layer, z)
+        let layers: Vec<Vec<Vec<(usize, f64)>>> = (0..nzones)
+            .map(|zi| {
+                let zf = &frame.zones[zi];
+                let (top, base) = &frame.bounds[zi];
+                (0..nj)
+                    .map(|j| match (top.z_at_node(i, j), base.z_at_node(i, j)) {
+                        (Some(t), Some(b)) => (0..zf.layers)
+                            .filter_map(|l| zf.z_of(zf.layer_centre(l), t, b).map(|z| (l, z)))
+                            .collect(),
+                        _ => Vec::new(),
+                    })
+                    .collect()
+            })
+            .collect();
+        // krige every zone and property on the layer centres
+        let mut est: Vec<Vec<Vec<(f64, f64)>>> = Vec::with_capacity(zps.len());
+        for (q, zp) in zps.iter().enumerate() {
+            let columns: Vec<Vec<Target>> = (0..nj)
+                .map(|j| {
+                    let (x, y) = g.node_xy(i as f64, j as f64);
+                    layers[zp.zone][j]
+                        .iter()
+                        .map(|&(l, z)| Target {
+                            pos: [x, y, frame.zones[zp.zone].layer_centre(l)],
+                            drift: match zp.drift {
+                                Some(Drift::Depth) => Some(z),
+                                Some(Drift::BackgroundVp0) => background.and_then(|b| trace_at_depth(g, &b.data, i, j, z)),
+                                None => None,
+                            },
+                            trend: zp.trend.map(|(a, b)| a + b * z),
+                        })
+                        .collect()
+                })
+                .collect();
+            let ge = krigers[q].krige_columns(&columns)?;
+            stats[q] += ge.stats;
+            let sill = zp.model.sill();
+            est.push(
+                ge.columns
+                    .into_iter()
+                    .zip(&columns)
+                    .map(|(c, targets)| {
+                        c.into_iter()
+                            .zip(targets)
+                            .map(|(e, t)| {
+                                if e.note == Note::NoNeighbours || !e.value.is_finite() {
+                                    let fallback = match zp.method {
+                                        KrigingMethod::SimpleTrend => t.trend.unwrap_or(zp.mean),
+                                        _ => zp.mean,
+                                    };
+                                    (fallback, sill)
+                                } else {
+                                    (e.value, e.variance.max(0.0))
+                                }
+                            })
+                            .collect()
+                    })
+                    .collect(),
+            );
+        }
+        // resample onto the depth grid, trace by trace
+        let traces: Vec<(Vec<[f32; 7]>, u64, u64, Vec<u64>)> = (0..nj)
+            .into_par_iter()
+            .map(|j| {
+                let mut tr = vec![[0f32; 7]; nz];
+                let (mut cin, mut cout) = (0u64, 0u64);
+                let mut clip = vec![0u64; zps.len()];
+                for (k, cell) in tr.iter_mut().enumerate() {
+                    let Some(pos) = frame.locate_cell(g, i, j, k) else {
+                        cout += 1;
+                        let bg = background
+                            .and_then(|b| b.data.get(g.trace_index(i, j) * nz + k).copied())
+                            .unwrap_or(0.0);
+                        *cell = [bg, 0.0, 0.0, 0.0, 0.0, 0.0, -1.0];
+                        continue;
+                    };
+                    cin += 1;
+                    let zf = &frame.zones[pos.zone];
+                    cell[6] = pos.zone as f32;
+                    for (q, zp) in zps.iter().enumerate().filter(|(_, zp)| zp.zone == pos.zone) {
+                        let col = &layers[pos.zone][j];
+                        let e = &est[q][j];
+                        let (m, v) = if col.is_empty() {
+                            // a column thinner than half a cell: no layer centre inside it
+                            let (x, y) = g.node_xy(i as f64, j as f64);
+                            let t = Target {
+                                pos: [x, y, pos.s],
+                                drift: match zp.drift {
+                                    Some(Drift::Depth) => Some(g.z_at(k)),
+                                    Some(Drift::BackgroundVp0) => background.and_then(|b| trace_at_depth(g, &b.data, i, j, g.z_at(k))),
+                                    None => None,
+                                },
+                                trend: zp.trend.map(|(a, b)| a + b * g.z_at(k)),
+                            };
+                            match krigers[q].estimate(&t) {
+                                Ok(e) if e.value.is_finite() => (e.value, e.variance.max(0.0)),
+                                _ => (zp.mean, zp.model.sill()),
+                            }
+                        } else {
+                            interpolate_layers(col, e, pos.s / zf.cell_thickness - 0.5)
+                        };
+                        let mut m = m;
+                        if zp.prop > 0 {
+                            let (lo, hi) = if zp.prop == 1 { p.bounds.epsilon } else { p.bounds.delta };
+                            if m < lo || m > hi {
+                                m = m.clamp(lo, hi);
+                                clip[q] += 1;
+                            }
+                        }
+                        cell[2 * zp.prop] = m as f32;
+                        cell[2 * zp.prop + 1] = v.sqrt() as f32;
+                    }
+                }
+                (tr, cin, cout, clip)
+            })
+            .collect();
+        let mut buf = vec![0f32; nz];
+        for (tr, cin, cout, clip) in &traces {
+            cells_in += cin;
+            cells_out += cout;
+            for (q, c) in clip.iter().enumerate() {
+                clipped[q] += c;
+            }
+            for (v, w) in writers.iter_mut().enumerate() {
+                for (k, b) in buf.iter_mut().enumerate() {
+                    *b = tr[k][v];
+                }
+                w.write_trace(&buf)?;
+            }
+        }
+        pb.inc(1);
+    }
+    pb.finish_and_clear();
+    for w in writers {
+        w.finish()?;
+    }
+
+    // reports and manifest
+    drop(krigers);
+    let mut zones = Vec::with_capacity(zps.len());
+    for (q, zp) in zps.into_iter().enumerate() {
+        let mut r = zp.report;
+        let s = stats[q];
+        r.targets = s.targets;
+        r.solves = s.solves;
+        r.reuses = s.reuses;
+        r.no_neighbours = s.no_neighbours;
+        r.drift_fallbacks = s.drift_fallbacks;
+        r.clipped_cells = clipped[q];
+        if s.no_neighbours > 0 {
+            warnings.push(format!(
+                "zone {} {}: {} layer centres had no well sample within the search radius and hold the zone mean with the sill as variance",
+                r.zone, r.property, s.no_neighbours
+            ));
+        }
+        zones.push(r);
+    }
+    let mut manifest = Manifest::new(
+        p,
+        OutsideFill {
+            zone: -1,
+            vp0_mean: if background.is_some() { "background_vp0".into() } else { "0".into() },
+            std: 0.0,
+            epsilon_delta_mean: 0.0,
+        },
+    );
+    for (prop, stat, unit, path) in &metas {
+        manifest.volumes.push(ManifestVolume {
+            property: prop.clone(),
+            statistic: stat.clone(),
+            unit: unit.clone(),
+            path: relative(&out, path),
+        });
+    }
+    let models_path = out.join("variograms.toml");
+    let mut toml_text = String::from("# Variogram models used by this build, in project-file syntax: paste into the\n# project under [variograms.<zone>.<property>] to fix or edit them.\n");
+    for r in &zones {
+        let _ = writeln!(toml_text, "\n{}", r.variogram.toml);
+    }
+    write_atomic(&models_path, toml_text.as_bytes())?;
+    manifest.files.push(ManifestFile {
+        kind: "variogram_models".into(),
+        path: relative(&out, &models_path),
+    });
+    let summary_path = out.join("build_summary.json");
+    let report = BuildReport {
+        out: out.clone(),
+        manifest: manifest_path.clone(),
+        zones,
+        cells_in_zones: cells_in,
+        cells_outside: cells_out,
+        warnings,
+    };
+    let text = serde_json::to_string_pretty(&report)
+        .map_err(|e| Error::inconsistent(format!("cannot encode the build summary: {e}")))?;
+    write_atomic(&summary_path, text.as_bytes())?;
+    manifest.files.push(ManifestFile {
+        kind: "build_summary".into(),
+        path: relative(&out, &summary_path),
+    });
+    manifest.write(&manifest_path)?;
+    Ok(report)
+}
+
+/// Linear interpolation of (mean, variance) at fractional layer position `u`
+/// (`u = s / h - 0.5`, so layer centre `l` is at `u = l`) between the layer
+/// centres present in a column; nearest centre beyond the ends.
+fn interpolate_layers(col: &[(usize, f64)], est: &[(f64, f64)], u: f64) -> (f64, f64) {
+    let first = col[0].0 as f64;
+    let last = col[col.len() - 1].0 as f64;
+    if u <= first {
+        return est[0];
+    }
+    if u >= last {
+        return est[est.len() - 1];
+    }
+    // layers present are contiguous: index = layer - first
+    let k = ((u - first).floor() as usize).min(col.len() - 2);
+    let f = u - col[k].0 as f64;
+    let (a, b) = (est[k], est[k + 1]);
+    (a.0 + f * (b.0 - a.0), a.1 + f * (b.1 - a.1))
+}
+
+fn relative(base: &Path, p: &Path) -> String {
+    p.strip_prefix(base)
+        .unwrap_or(p)
+        .to_string_lossy()
+        .replace('\\', "/")
+}
+
+impl BuildReport {
+    /// A readable text rendering.
+    pub fn render_text(&self) -> String {
+        let mut s = String::new();
+        let _ = writeln!(s, "Prior volumes written to {} (manifest {})", self.out.display(), self.manifest.display());
+        let _ = writeln!(s, "  {} cells inside zones, {} outside (zone -1)", self.cells_in_zones, self.cells_outside);
+        let _ = writeln!(
+            s,
+            "\n  {:<12} {:<8} {:<15} {:>7} {:>5} {:>9} {:>9} {:>9} {:>7}",
+            "zone", "property", "method", "samples", "wells", "targets", "solves", "reused", "clipped"
+        );
+        for r in &self.zones {
+            let _ = writeln!(
+                s,
+                "  {:<12} {:<8} {:<15} {:>7} {:>5} {:>9} {:>9} {:>9} {:>7}",
+                r.zone, r.property, r.method, r.samples, r.wells, r.targets, r.solves, r.reuses, r.clipped_cells
+            );
+        }
+        let _ = writeln!(s, "\nVariogram models (project-file syntax; also in variograms.toml):");
+        for r in &self.zones {
+            let _ = writeln!(s, "{}", r.variogram.toml);
+        }
+        if !self.warnings.is_empty() {
+            let _ = writeln!(s, "\nWarnings");
+            for w in &self.warnings {
+                let _ = writeln!(s, "  {w}");
+            }
+        }
+        let _ = writeln!(s, "\nCaution: {}", super::manifest::CAUTION);
+        s
+    }
+}

@@ -1,0 +1,7 @@
+//! Prior assembly: kriged mean and uncertainty volumes of Vp0, epsilon and
+//! delta, the zone volume, and the manifest that describes them.
+
+pub mod build;
+pub mod manifest;
+pub mod variograms;
+pub mod volume_sampling;
