@@ -573,7 +573,7 @@ pub fn horizontal_variogram(
 /// index `j` growing) goes at bearing `azimuth` in steps of `xline_spacing`;
 /// moving along a crossline (inline index `i` growing) goes at bearing
 /// `azimuth + 90` in steps of `inline_spacing`; layers are `layer_spacing` apart in s.
-#[derive(Debug, Clone, Copy)]
+#[derive(Debug, Clone, Copy, Serialize)]
 pub struct GridValues<'a> {
     /// Values, NaN where missing.
     pub values: &'a [f64],
