@@ -178,6 +178,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     // kriging data, variograms and krigers per zone and property
     let mut zps: Vec<ZoneProperty> = Vec::new();
     for (zi, zdef) in p.zones.iter().enumerate() {
+        let mut vp0_horizontal: Option<(f64, f64, f64)> = None;
         for (pi, pname) in PROPERTIES.iter().enumerate() {
             let rows: Vec<&BlockedSample> = blocked
                 .iter()
@@ -250,7 +251,21 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                 (None, Some(_)) => samples.iter().map(|s| s.value - s.trend.unwrap_or(mean)).collect(),
                 (None, None) => samples.iter().map(|s| s.value - mean).collect(),
             };
-            let (model, record) = zone_property_variogram(&study, &frame, zi, pname, &samples, &residuals, (pi == 0).then_some(background).flatten())?;
+            let (model, record) = zone_property_variogram(
+                &study,
+                &frame,
+                zi,
+                pname,
+                &samples,
+                &residuals,
+                (pi == 0).then_some(background).flatten(),
+                vp0_horizontal,
+            )?;
+            if pi == 0 {
+                vp0_horizontal = model
+                    .search_structure()
+                    .map(|s| (s.range_major, s.range_minor, s.azimuth));
+            }
             warnings.extend(record.warnings.iter().map(|w| format!("zone {} {pname}: {w}", zdef.name)));
             let kind = match method {
                 KrigingMethod::Simple => KrigingKind::SimpleMean(mean),
