@@ -1,1 +1,0 @@
-//! Simple, ordinary and external-drift kriging with kriging variance.

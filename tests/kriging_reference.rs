@@ -1,0 +1,232 @@
+//! Kriging against the reference libraries PyKrige 1.7.3 and GSTools 1.7.0
+//! (PyPI), on random 3-D data with identical neighbour sets (all points).
+//!
+//! The cases and the reference results come from
+//! `tests/reference/kriging_reference.py`. With `STRATIPRIOR_PYTHON` set to an
+//! interpreter that has both libraries, the script is run live and its output
+//! is compared (as well as the committed golden file); otherwise the committed
+//! golden file `tests/golden/kriging/reference.json` written by the same script
+//! is used. With `STRATIPRIOR_REQUIRE_PYTHON=1`, a missing interpreter or
+//! library is a failure.
+//!
+//! Covariance mapping (see the script): PyKrige exponential `psill = c`,
+//! `range = 3 / a`; GSTools `Exponential(var = c, len_scale = 1 / a)` for
+//! `C(h) = c exp(-a h)`; anisotropic GSTools `len_scale = [l1, l2, l3]` is our
+//! test model with lengths `(l1, l2, l3)` along (x, y, s) (azimuth 90 deg puts
+//! the major axis on x).
+
+mod kriging_support;
+
+use kriging_support::{AnisoExp, IsoExp};
+use serde_json::Value;
+use std::path::{Path, PathBuf};
+use std::process::Command;
+use stratiprior::geostat::kriging::{
+    external_drift_kriging_weights, ordinary_kriging_weights, simple_kriging_weights, Kriger,
+    KrigingKind, Sample, SampleSet, Target,
+};
+use stratiprior::geostat::neighbourhood::NeighbourhoodParams;
+use stratiprior::geostat::CovarianceModel;
+
+fn golden_path() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/golden/kriging/reference.json")
+}
+
+fn load(path: &Path) -> Value {
+    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+    serde_json::from_str(&text).unwrap_or_else(|e| panic!("{}: {e}", path.display()))
+}
+
+/// The live reference, if an interpreter is configured and has the libraries.
+fn live() -> Option<Value> {
+    let require = std::env::var("STRATIPRIOR_REQUIRE_PYTHON").is_ok_and(|v| v == "1");
+    let Ok(py) = std::env::var("STRATIPRIOR_PYTHON") else {
+        assert!(
+            !require,
+            "STRATIPRIOR_REQUIRE_PYTHON=1 but STRATIPRIOR_PYTHON is not set"
+        );
+        return None;
+    };
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("reference.json");
+    let script = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/reference/kriging_reference.py");
+    let run = Command::new(&py).arg(&script).arg(&out).output();
+    match run {
+        Ok(o) if o.status.success() => Some(load(&out)),
+        Ok(o) => {
+            let msg = format!(
+                "{py} {}: failed (pykrige and gstools installed?): {}",
+                script.display(),
+                String::from_utf8_lossy(&o.stderr)
+            );
+            assert!(!require, "{msg}");
+            eprintln!("{msg}; using the golden file");
+            None
+        }
+        Err(e) => {
+            assert!(!require, "cannot run {py}: {e}");
+            eprintln!("cannot run {py}: {e}; using the golden file");
+            None
+        }
+    }
+}
+
+fn arr(v: &Value) -> Vec<f64> {
+    v.as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_f64().unwrap())
+        .collect()
+}
+
+fn arr3(v: &Value) -> Vec<[f64; 3]> {
+    v.as_array()
+        .unwrap()
+        .iter()
+        .map(|p| {
+            let p = arr(p);
+            [p[0], p[1], p[2]]
+        })
+        .collect()
+}
+
+fn model_of(m: &Value) -> Box<dyn CovarianceModel> {
+    match m["type"].as_str().unwrap() {
+        "iso_exp" => Box::new(IsoExp {
+            c: m["c"].as_f64().unwrap(),
+            a: m["a"].as_f64().unwrap(),
+        }),
+        "aniso_exp" => {
+            let l = arr(&m["lengths"]);
+            Box::new(AnisoExp {
+                c: m["c"].as_f64().unwrap(),
+                lengths: [l[0], l[1], l[2]],
+                azimuth_deg: 90.0,
+            })
+        }
+        t => panic!("unknown model type {t}"),
+    }
+}
+
+/// Our estimates and variances for one case: through the one-target functions
+/// and through the engine (each point its own well, neighbourhood = all points).
+fn ours(case: &Value) -> (Vec<(f64, f64)>, Vec<(f64, f64)>) {
+    let model = model_of(&case["model"]);
+    let pts = arr3(&case["points"]);
+    let z = arr(&case["values"]);
+    let tg = arr3(&case["targets"]);
+    let kind = case["kind"].as_str().unwrap();
+    let mean = case.get("mean").and_then(Value::as_f64).unwrap_or(0.0);
+    let drift = case.get("drift").map(arr).unwrap_or_default();
+    let tdrift = case.get("target_drift").map(arr).unwrap_or_default();
+    let mut direct = Vec::new();
+    for (k, &t) in tg.iter().enumerate() {
+        let (e, v) = match kind {
+            "ordinary" => {
+                let w = ordinary_kriging_weights(model.as_ref(), &pts, t).unwrap();
+                (w.combine(&z), w.variance)
+            }
+            "simple" => {
+                let w = simple_kriging_weights(model.as_ref(), &pts, t).unwrap();
+                let r: Vec<f64> = z.iter().map(|v| v - mean).collect();
+                (mean + w.combine(&r), w.variance)
+            }
+            "external_drift" => {
+                let w = external_drift_kriging_weights(model.as_ref(), &pts, &drift, t, tdrift[k])
+                    .unwrap();
+                assert!(!w.drift_fallback);
+                (w.combine(&z), w.variance)
+            }
+            _ => panic!("unknown kind {kind}"),
+        };
+        direct.push((e, v));
+    }
+    let samples: Vec<Sample> = pts
+        .iter()
+        .enumerate()
+        .map(|(i, p)| {
+            let mut s = Sample::new(i as u32, 0, *p, z[i]);
+            s.drift = drift.get(i).copied();
+            s
+        })
+        .collect();
+    let data = SampleSet::new(samples).unwrap();
+    let kk = match kind {
+        "ordinary" => KrigingKind::Ordinary,
+        "simple" => KrigingKind::SimpleMean(mean),
+        _ => KrigingKind::ExternalDrift,
+    };
+    let all = NeighbourhoodParams::per_well(1, pts.len(), pts.len(), f64::INFINITY);
+    let kr = Kriger::new(&data, model.as_ref(), all, kk).unwrap();
+    let targets: Vec<Target> = tg
+        .iter()
+        .enumerate()
+        .map(|(k, &p)| Target {
+            pos: p,
+            drift: tdrift.get(k).copied(),
+            trend: None,
+        })
+        .collect();
+    let col = kr.krige_column(&targets).unwrap();
+    let engine = col
+        .estimates
+        .iter()
+        .map(|e| {
+            assert_eq!(e.neighbours as usize, pts.len());
+            (e.value, e.variance)
+        })
+        .collect();
+    (direct, engine)
+}
+
+fn compare(reference: &Value, label: &str) {
+    let mut checked = 0;
+    let mut worst = 0.0f64;
+    for case in reference["cases"].as_array().unwrap() {
+        let name = case["name"].as_str().unwrap();
+        let (direct, engine) = ours(case);
+        for (lib, r) in case["reference"].as_object().unwrap() {
+            let re = arr(&r["estimate"]);
+            let rv = arr(&r["variance"]);
+            assert_eq!(re.len(), direct.len());
+            for k in 0..re.len() {
+                for (what, (e, v)) in [("direct", direct[k]), ("engine", engine[k])] {
+                    worst = worst
+                        .max((e - re[k]).abs() / re[k].abs().max(1.0))
+                        .max((v - rv[k]).abs() / rv[k].abs().max(1.0));
+                    let tol_e = 1e-8 * re[k].abs().max(1.0);
+                    let tol_v = 1e-8 * rv[k].abs().max(1.0);
+                    assert!(
+                        (e - re[k]).abs() <= tol_e,
+                        "{label} {name} {lib} target {k} ({what}): estimate {e} vs {}",
+                        re[k]
+                    );
+                    assert!(
+                        (v - rv[k]).abs() <= tol_v,
+                        "{label} {name} {lib} target {k} ({what}): variance {v} vs {}",
+                        rv[k]
+                    );
+                }
+                checked += 1;
+            }
+        }
+    }
+    println!("{label}: largest difference {worst:.2e} (relative, or absolute below 1)");
+    // 1 + 5 x 25 targets x libraries: I&S (2 libs), OK (2), SK (1), KED (2), 3 aniso (1 each)
+    assert_eq!(
+        checked,
+        2 + 25 * (2 + 1 + 2 + 3),
+        "{label}: all cases checked"
+    );
+}
+
+#[test]
+fn agrees_with_pykrige_and_gstools() {
+    let golden = load(&golden_path());
+    assert_eq!(golden["meta"]["pykrige"], "1.7.3");
+    assert_eq!(golden["meta"]["gstools"], "1.7.0");
+    compare(&golden, "golden");
+    if let Some(l) = live() {
+        compare(&l, "live");
+    }
+}
