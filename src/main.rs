@@ -28,6 +28,24 @@ enum Command {
         #[arg(long, short, conflicts_with = "json")]
         quiet: bool,
     },
+    /// Build the prior: mean and standard-deviation volumes of Vp0, epsilon and
+    /// delta by kriging in stratigraphic coordinates, a zone volume and manifest.json.
+    Build {
+        /// The project file (TOML).
+        project: PathBuf,
+        /// Output folder (default: the project's `output`).
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Worker threads (default: all cores). Results are identical for any count.
+        #[arg(long)]
+        threads: Option<usize>,
+        /// Print the summary as JSON.
+        #[arg(long)]
+        json: bool,
+        /// Print nothing but errors.
+        #[arg(long, short, conflicts_with = "json")]
+        quiet: bool,
+    },
     /// Condition the wells (Vp0, epsilon, delta, zone, stratigraphic coordinate,
     /// facies per sample) and write each as LAS 2.0.
     Condition {
@@ -101,6 +119,28 @@ fn run(cli: Cli) -> anyhow::Result<()> {
         } => {
             let progress = !quiet && !json && std::io::stderr().is_terminal();
             let report = stratiprior::check::run(&project, progress)?;
+            if json {
+                println!("{}", serde_json::to_string_pretty(&report)?);
+            } else if !quiet {
+                print!("{}", report.render_text());
+            }
+        }
+        Command::Build {
+            project,
+            out,
+            threads,
+            json,
+            quiet,
+        } => {
+            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let report = stratiprior::prior::build::build(
+                &project,
+                &stratiprior::prior::build::BuildOptions {
+                    out,
+                    threads,
+                    progress,
+                },
+            )?;
             if json {
                 println!("{}", serde_json::to_string_pretty(&report)?);
             } else if !quiet {

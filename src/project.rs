@@ -1070,7 +1070,7 @@ impl Project {
                 "vp0",
                 &Some(k.as_ref().and_then(|k| k.vp0.clone()).unwrap_or_else(|| {
                     if raw.volumes.background_vp0.is_some() {
-                        "external_drift".into()
+                        "simple_trend".into()
                     } else {
                         "ordinary".into()
                     }

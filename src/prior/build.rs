@@ -36,7 +36,7 @@ use crate::geostat::variogram::VariogramModel;
 use crate::geostat::CovarianceModel;
 use crate::io_util::{refuse_overwrite_input, write_atomic};
 use crate::project::{Drift, KrigingMethod};
-use crate::study::{load, Study};
+use crate::study::load;
 use indicatif::{ProgressBar, ProgressStyle};
 use rayon::prelude::*;
 use serde::Serialize;
@@ -66,8 +66,9 @@ pub struct ZonePropertyReport {
     pub property: String,
     /// Kriging method.
     pub method: String,
-    /// Drift, for external-drift kriging.
-    pub drift: Option<String>,
+    /// Secondary variable: the drift of external-drift kriging, or the variable
+    /// of the linear trend of simple kriging with a trend (`depth` or `background_vp0`).
+    pub secondary: Option<String>,
     /// Blocked samples used.
     pub samples: usize,
     /// Wells contributing.
@@ -107,6 +108,10 @@ pub struct BuildReport {
     pub warnings: Vec<String>,
 }
 
+/// One resampled trace: the seven volume values per depth sample, cells inside
+/// and outside zones, clipped cells per zone and property.
+type TraceResult = (Vec<[f32; 7]>, u64, u64, Vec<u64>);
+
 struct ZoneProperty {
     zone: usize,
     prop: usize,
@@ -118,6 +123,40 @@ struct ZoneProperty {
     trend: Option<(f64, f64)>,
     mean: f64,
     report: ZonePropertyReport,
+}
+
+impl ZoneProperty {
+    /// The kriging target at node (i, j), depth `z`, position `pos` = (x, y, s):
+    /// drift and trend values from the secondary variable there.
+    fn target(
+        &self,
+        g: &crate::grid::SurveyGrid,
+        background: Option<&crate::study::InputVolume>,
+        i: usize,
+        j: usize,
+        pos: [f64; 3],
+        z: f64,
+    ) -> Target {
+        let sec = match self.drift {
+            Some(Drift::Depth) => Some(z),
+            Some(Drift::BackgroundVp0) => {
+                background.and_then(|b| trace_at_depth(g, &b.data, i, j, z))
+            }
+            None => None,
+        };
+        Target {
+            pos,
+            drift: if self.method == KrigingMethod::ExternalDrift {
+                sec
+            } else {
+                None
+            },
+            trend: match (self.trend, sec) {
+                (Some((a, b)), Some(v)) => Some(a + b * v),
+                _ => None,
+            },
+        }
+    }
 }
 
 fn value_of(b: &BlockedSample, prop: usize) -> Option<f64> {
@@ -193,7 +232,11 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             }
             let mut method = p.kriging.method(&zdef.name, pname);
             let drift = match method {
-                KrigingMethod::ExternalDrift => Some(if pi == 0 { p.kriging.vp0_drift } else { Drift::Depth }),
+                KrigingMethod::ExternalDrift | KrigingMethod::SimpleTrend => Some(if pi == 0 {
+                    p.kriging.vp0_drift
+                } else {
+                    Drift::Depth
+                }),
                 _ => None,
             };
             if drift == Some(Drift::BackgroundVp0) && background.is_none() {
@@ -208,24 +251,16 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     Drift::BackgroundVp0 => sample_volume(g, &background?.data, x, y, z),
                 }
             };
-            let values: Vec<(f64, f64)> = rows.iter().map(|b| (b.z, value_of(b, pi).unwrap_or(f64::NAN))).collect();
+            let values: Vec<(f64, f64)> = rows
+                .iter()
+                .map(|b| (b.z, value_of(b, pi).unwrap_or(f64::NAN)))
+                .collect();
             let mean = values.iter().map(|v| v.1).sum::<f64>() / values.len() as f64;
-            let mut trend = None;
-            if method == KrigingMethod::SimpleTrend {
-                trend = depth_trend(&values);
-                if trend.is_none() {
-                    warnings.push(format!(
-                        "zone {} {pname}: no depth trend can be fitted (samples at one depth); simple kriging with the zone mean instead",
-                        zdef.name
-                    ));
-                    method = KrigingMethod::Simple;
-                }
-            }
-            let mut samples = Vec::with_capacity(rows.len());
-            for b in &rows {
-                let mut s = Sample::new(b.well as u32, b.layer as i32, [b.x, b.y, b.s], value_of(b, pi).unwrap_or(f64::NAN));
-                if drift.is_some() {
-                    s.drift = Some(drift_at(b.x, b.y, b.z).ok_or_else(|| {
+            // secondary-variable value at every sample
+            let mut sec = Vec::with_capacity(rows.len());
+            if drift.is_some() {
+                for b in &rows {
+                    sec.push(drift_at(b.x, b.y, b.z).ok_or_else(|| {
                         Error::inconsistent(format!(
                             "well {}: a blocked sample at x {:.1} y {:.1} is outside the background volume",
                             study.wells[b.well].name(),
@@ -234,22 +269,58 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         ))
                     })?);
                 }
+            }
+            let mut trend = None;
+            if method == KrigingMethod::SimpleTrend {
+                let pts: Vec<(f64, f64)> =
+                    sec.iter().zip(&values).map(|(s, v)| (*s, v.1)).collect();
+                trend = depth_trend(&pts);
+                if trend.is_none() {
+                    warnings.push(format!(
+                        "zone {} {pname}: no linear trend can be fitted (the secondary variable is constant over the samples); simple kriging with the zone mean instead",
+                        zdef.name
+                    ));
+                    method = KrigingMethod::Simple;
+                }
+            }
+            let drift_values = method == KrigingMethod::ExternalDrift;
+            let mut samples = Vec::with_capacity(rows.len());
+            for b in &rows {
+                // the blocked value stands for its whole cell: it sits at the layer centre,
+                // so the configuration of vertical wells repeats exactly layer after layer
+                let s_centre = frame.zones[zi].layer_centre(b.layer);
+                let mut s = Sample::new(
+                    b.well as u32,
+                    b.layer as i32,
+                    [b.x, b.y, s_centre],
+                    value_of(b, pi).unwrap_or(f64::NAN),
+                );
+                let k = samples.len();
+                if drift_values {
+                    s.drift = sec.get(k).copied();
+                }
                 if let Some((a, bb)) = trend {
-                    s.trend = Some(a + bb * b.z);
+                    s.trend = sec.get(k).map(|v| a + bb * v);
                 }
                 samples.push(s);
             }
             // residuals for the variogram: from the drift regression, the trend or the mean
-            let residuals: Vec<f64> = match (drift, trend) {
-                (Some(_), _) => {
-                    let pts: Vec<(f64, f64)> = samples.iter().map(|s| (s.drift.unwrap_or(0.0), s.value)).collect();
+            let residuals: Vec<f64> = match (drift_values, trend) {
+                (true, _) => {
+                    let pts: Vec<(f64, f64)> = samples
+                        .iter()
+                        .map(|s| (s.drift.unwrap_or(0.0), s.value))
+                        .collect();
                     match depth_trend(&pts) {
                         Some((a, b)) => pts.iter().map(|(d, v)| v - (a + b * d)).collect(),
                         None => samples.iter().map(|s| s.value - mean).collect(),
                     }
                 }
-                (None, Some(_)) => samples.iter().map(|s| s.value - s.trend.unwrap_or(mean)).collect(),
-                (None, None) => samples.iter().map(|s| s.value - mean).collect(),
+                (false, Some(_)) => samples
+                    .iter()
+                    .map(|s| s.value - s.trend.unwrap_or(mean))
+                    .collect(),
+                (false, None) => samples.iter().map(|s| s.value - mean).collect(),
             };
             let (model, record) = zone_property_variogram(
                 &study,
@@ -266,7 +337,12 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     .search_structure()
                     .map(|s| (s.range_major, s.range_minor, s.azimuth));
             }
-            warnings.extend(record.warnings.iter().map(|w| format!("zone {} {pname}: {w}", zdef.name)));
+            warnings.extend(
+                record
+                    .warnings
+                    .iter()
+                    .map(|w| format!("zone {} {pname}: {w}", zdef.name)),
+            );
             let kind = match method {
                 KrigingMethod::Simple => KrigingKind::SimpleMean(mean),
                 KrigingMethod::SimpleTrend => KrigingKind::SimpleTrend,
@@ -283,7 +359,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                 zone: zdef.name.clone(),
                 property: pname.to_string(),
                 method: method.name().into(),
-                drift: drift.map(|d| match d {
+                secondary: drift.map(|d| match d {
                     Drift::BackgroundVp0 => "background_vp0".to_string(),
                     Drift::Depth => "depth".to_string(),
                 }),
@@ -330,10 +406,20 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     let mut metas: Vec<(String, String, String, PathBuf)> = Vec::new();
     for (prop, unit) in [("vp0", "m/s"), ("epsilon", "1"), ("delta", "1")] {
         for stat in ["mean", "std"] {
-            metas.push((prop.into(), stat.into(), unit.into(), vol_dir.join(format!("{prop}_{stat}.sgy"))));
+            metas.push((
+                prop.into(),
+                stat.into(),
+                unit.into(),
+                vol_dir.join(format!("{prop}_{stat}.sgy")),
+            ));
         }
     }
-    metas.push(("zone".into(), "value".into(), "index".into(), vol_dir.join("zone.sgy")));
+    metas.push((
+        "zone".into(),
+        "value".into(),
+        "index".into(),
+        vol_dir.join("zone.sgy"),
+    ));
     let manifest_path = out.join("manifest.json");
     for (_, _, _, path) in &metas {
         refuse_overwrite_input(path, &inputs)?;
@@ -361,7 +447,9 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
 
     let pb = if opts.progress {
         let pb = ProgressBar::new(g.inline_count as u64);
-        if let Ok(st) = ProgressStyle::with_template("{spinner} kriging inline {pos}/{len} {bar:30} {eta}") {
+        if let Ok(st) =
+            ProgressStyle::with_template("{spinner} kriging inline {pos}/{len} {bar:30} {eta}")
+        {
             pb.set_style(st);
         }
         pb
@@ -400,14 +488,15 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     let (x, y) = g.node_xy(i as f64, j as f64);
                     layers[zp.zone][j]
                         .iter()
-                        .map(|&(l, z)| Target {
-                            pos: [x, y, frame.zones[zp.zone].layer_centre(l)],
-                            drift: match zp.drift {
-                                Some(Drift::Depth) => Some(z),
-                                Some(Drift::BackgroundVp0) => background.and_then(|b| trace_at_depth(g, &b.data, i, j, z)),
-                                None => None,
-                            },
-                            trend: zp.trend.map(|(a, b)| a + b * z),
+                        .map(|&(l, z)| {
+                            zp.target(
+                                g,
+                                background,
+                                i,
+                                j,
+                                [x, y, frame.zones[zp.zone].layer_centre(l)],
+                                z,
+                            )
                         })
                         .collect()
                 })
@@ -439,7 +528,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             );
         }
         // resample onto the depth grid, trace by trace
-        let traces: Vec<(Vec<[f32; 7]>, u64, u64, Vec<u64>)> = (0..nj)
+        let traces: Vec<TraceResult> = (0..nj)
             .into_par_iter()
             .map(|j| {
                 let mut tr = vec![[0f32; 7]; nz];
@@ -463,15 +552,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         let (m, v) = if col.is_empty() {
                             // a column thinner than half a cell: no layer centre inside it
                             let (x, y) = g.node_xy(i as f64, j as f64);
-                            let t = Target {
-                                pos: [x, y, pos.s],
-                                drift: match zp.drift {
-                                    Some(Drift::Depth) => Some(g.z_at(k)),
-                                    Some(Drift::BackgroundVp0) => background.and_then(|b| trace_at_depth(g, &b.data, i, j, g.z_at(k))),
-                                    None => None,
-                                },
-                                trend: zp.trend.map(|(a, b)| a + b * g.z_at(k)),
-                            };
+                            let t = zp.target(g, background, i, j, [x, y, pos.s], g.z_at(k));
                             match krigers[q].estimate(&t) {
                                 Ok(e) if e.value.is_finite() => (e.value, e.variance.max(0.0)),
                                 _ => (zp.mean, zp.model.sill()),
@@ -481,7 +562,11 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         };
                         let mut m = m;
                         if zp.prop > 0 {
-                            let (lo, hi) = if zp.prop == 1 { p.bounds.epsilon } else { p.bounds.delta };
+                            let (lo, hi) = if zp.prop == 1 {
+                                p.bounds.epsilon
+                            } else {
+                                p.bounds.delta
+                            };
                             if m < lo || m > hi {
                                 m = m.clamp(lo, hi);
                                 clip[q] += 1;
@@ -539,7 +624,11 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         p,
         OutsideFill {
             zone: -1,
-            vp0_mean: if background.is_some() { "background_vp0".into() } else { "0".into() },
+            vp0_mean: if background.is_some() {
+                "background_vp0".into()
+            } else {
+                "0".into()
+            },
             std: 0.0,
             epsilon_delta_mean: 0.0,
         },
@@ -612,21 +701,49 @@ impl BuildReport {
     /// A readable text rendering.
     pub fn render_text(&self) -> String {
         let mut s = String::new();
-        let _ = writeln!(s, "Prior volumes written to {} (manifest {})", self.out.display(), self.manifest.display());
-        let _ = writeln!(s, "  {} cells inside zones, {} outside (zone -1)", self.cells_in_zones, self.cells_outside);
+        let _ = writeln!(
+            s,
+            "Prior volumes written to {} (manifest {})",
+            self.out.display(),
+            self.manifest.display()
+        );
+        let _ = writeln!(
+            s,
+            "  {} cells inside zones, {} outside (zone -1)",
+            self.cells_in_zones, self.cells_outside
+        );
         let _ = writeln!(
             s,
             "\n  {:<12} {:<8} {:<15} {:>7} {:>5} {:>9} {:>9} {:>9} {:>7}",
-            "zone", "property", "method", "samples", "wells", "targets", "solves", "reused", "clipped"
+            "zone",
+            "property",
+            "method",
+            "samples",
+            "wells",
+            "targets",
+            "solves",
+            "reused",
+            "clipped"
         );
         for r in &self.zones {
             let _ = writeln!(
                 s,
                 "  {:<12} {:<8} {:<15} {:>7} {:>5} {:>9} {:>9} {:>9} {:>7}",
-                r.zone, r.property, r.method, r.samples, r.wells, r.targets, r.solves, r.reuses, r.clipped_cells
+                r.zone,
+                r.property,
+                r.method,
+                r.samples,
+                r.wells,
+                r.targets,
+                r.solves,
+                r.reuses,
+                r.clipped_cells
             );
         }
-        let _ = writeln!(s, "\nVariogram models (project-file syntax; also in variograms.toml):");
+        let _ = writeln!(
+            s,
+            "\nVariogram models (project-file syntax; also in variograms.toml):"
+        );
         for r in &self.zones {
             let _ = writeln!(s, "{}", r.variogram.toml);
         }

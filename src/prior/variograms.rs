@@ -27,9 +27,9 @@ use crate::error::{Error, Result};
 use crate::frame::strat::StratFrame;
 use crate::geostat::kriging::Sample;
 use crate::geostat::variogram::{
-    fit_model, gridded_variogram, horizontal_variogram, vertical_variogram, ExperimentalVariogram, FitReport,
-    FitSpec, GridDirection, GridValues, HorizontalOptions, LagBins, StructureKind, VariogramModel, WellSeries,
-    DEFAULT_MIN_PAIRS,
+    fit_model, gridded_variogram, horizontal_variogram, vertical_variogram, ExperimentalVariogram,
+    FitReport, FitSpec, GridDirection, GridValues, HorizontalOptions, LagBins, StructureKind,
+    VariogramModel, WellSeries, DEFAULT_MIN_PAIRS,
 };
 use crate::study::{InputVolume, Study};
 use serde::Serialize;
@@ -66,7 +66,9 @@ fn project_setting(study: &Study, zone: &str, prop: &str) -> Result<Option<Setti
         return Ok(None);
     };
     let key = format!("variograms.{zone}.{prop}");
-    let is_fit = v.as_table().is_some_and(|t| t.contains_key("kinds") || t.contains_key("fixed"));
+    let is_fit = v
+        .as_table()
+        .is_some_and(|t| t.contains_key("kinds") || t.contains_key("fixed"));
     if is_fit {
         let spec: FitSpec = v
             .clone()
@@ -155,7 +157,9 @@ pub fn zone_property_variogram(
     }
     let h = zf.cell_thickness;
     let vmax = (zf.reference_thickness / 2.0).max(4.0 * h);
-    let vbins = LagBins::uniform(h, ((vmax / h).ceil() as usize).clamp(3, 60))?;
+    // classes centred on whole numbers of cells: blocked samples are one cell apart
+    let nv = ((vmax / h).ceil() as usize).clamp(3, 60);
+    let vbins = LagBins::from_edges((0..=nv).map(|k| (k as f64 + 0.5) * h).collect())?;
     let vert = vertical_variogram(&series, &vbins, DEFAULT_MIN_PAIRS)?;
 
     // horizontal between wells
@@ -171,7 +175,8 @@ pub fn zone_property_variogram(
         })
         .collect();
     let corners = g.corners();
-    let diag = ((corners[0].0 - corners[2].0).powi(2) + (corners[0].1 - corners[2].1).powi(2)).sqrt();
+    let diag =
+        ((corners[0].0 - corners[2].0).powi(2) + (corners[0].1 - corners[2].1).powi(2)).sqrt();
     let spacing = g.inline_spacing.max(g.xline_spacing);
     let hwidth = (diag / 12.0).max(spacing);
     let hbins = LagBins::uniform(hwidth, 8)?;
@@ -198,7 +203,9 @@ pub fn zone_property_variogram(
                 };
                 for l in 0..nk {
                     if let Some(z) = zf.z_of(zf.layer_centre(l), t, b) {
-                        if let Some(v) = super::volume_sampling::trace_at_depth(g, &bg.data, i, j, z) {
+                        if let Some(v) =
+                            super::volume_sampling::trace_at_depth(g, &bg.data, i, j, z)
+                        {
                             vals[(i * nj + j) * nk + l] = v;
                         }
                     }
@@ -270,7 +277,7 @@ pub fn zone_property_variogram(
     }
     for e in &experimental {
         for w in &e.warnings {
-            warnings.push(format!("{}: {}", e.direction.describe(), w.message));
+            warnings.push(w.message.clone());
         }
     }
     let model = fit.model.clone();
@@ -292,7 +299,11 @@ pub fn zone_property_variogram(
 
 /// A zone name as a TOML key (bare when it can be, quoted otherwise).
 pub fn toml_key(name: &str) -> String {
-    if !name.is_empty() && name.chars().all(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-') {
+    if !name.is_empty()
+        && name
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-')
+    {
         name.to_string()
     } else {
         format!("\"{}\"", name.replace('\\', "\\\\").replace('"', "\\\""))
