@@ -46,6 +46,21 @@ enum Command {
         #[arg(long, short, conflicts_with = "json")]
         quiet: bool,
     },
+    /// Experimental variograms and fitted models per zone and property (JSON,
+    /// SVG plots), printed in project-file syntax.
+    Variogram {
+        /// The project file (TOML).
+        project: PathBuf,
+        /// Folder to write into.
+        #[arg(long)]
+        out: PathBuf,
+        /// Print the summary as JSON.
+        #[arg(long)]
+        json: bool,
+        /// Print nothing but errors.
+        #[arg(long, short, conflicts_with = "json")]
+        quiet: bool,
+    },
     /// Condition the wells (Vp0, epsilon, delta, zone, stratigraphic coordinate,
     /// facies per sample) and write each as LAS 2.0.
     Condition {
@@ -141,6 +156,20 @@ fn run(cli: Cli) -> anyhow::Result<()> {
                     progress,
                 },
             )?;
+            if json {
+                println!("{}", serde_json::to_string_pretty(&report)?);
+            } else if !quiet {
+                print!("{}", report.render_text());
+            }
+        }
+        Command::Variogram {
+            project,
+            out,
+            json,
+            quiet,
+        } => {
+            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let report = stratiprior::commands::variogram::run(&project, &out, progress)?;
             if json {
                 println!("{}", serde_json::to_string_pretty(&report)?);
             } else if !quiet {

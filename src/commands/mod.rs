@@ -2,3 +2,4 @@
 //! its outputs: `condition`, `variogram`, `build`.
 
 pub mod condition;
+pub mod variogram;

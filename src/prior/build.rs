@@ -30,13 +30,14 @@ use crate::condition::blocking::BlockedSample;
 use crate::condition::logs::condition_all;
 use crate::error::{Error, Result};
 use crate::formats::segy::{SegyWriter, VolumeMeta};
+use crate::frame::strat::StratFrame;
 use crate::geostat::kriging::{Kriger, KrigingKind, KrigingStats, Note, Sample, SampleSet, Target};
 use crate::geostat::neighbourhood::NeighbourhoodParams;
 use crate::geostat::variogram::VariogramModel;
 use crate::geostat::CovarianceModel;
 use crate::io_util::{refuse_overwrite_input, write_atomic};
 use crate::project::{Drift, KrigingMethod};
-use crate::study::load;
+use crate::study::{load, Study};
 use indicatif::{ProgressBar, ProgressStyle};
 use rayon::prelude::*;
 use serde::Serialize;
@@ -198,23 +199,31 @@ pub fn build(project: &Path, opts: &BuildOptions) -> Result<BuildReport> {
     }
 }
 
-fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> {
-    let study = load(project_path, opts.progress)?;
+/// The variogram record of every zone and property of a loaded study, as `build`
+/// would use them, with the warnings of the preparation.
+pub fn variogram_records(study: &Study) -> Result<(Vec<VariogramRecord>, Vec<String>)> {
+    let frame = study.strat_frame();
+    let wells = condition_all(study, &frame)?;
+    let blocked: Vec<&BlockedSample> = wells.iter().flat_map(|w| w.blocked.iter()).collect();
+    let mut warnings = Vec::new();
+    let zps = prepare(study, &frame, &blocked, &mut warnings)?;
+    Ok((
+        zps.into_iter().map(|z| z.report.variogram).collect(),
+        warnings,
+    ))
+}
+
+/// The kriging data, variogram and settings of every zone and property of a
+/// study: the common first half of `build` and `variogram`.
+fn prepare(
+    study: &Study,
+    frame: &StratFrame,
+    blocked: &[&BlockedSample],
+    warnings: &mut Vec<String>,
+) -> Result<Vec<ZoneProperty>> {
     let p = &study.project;
     let g = &p.grid;
-    let out = opts.out.clone().unwrap_or_else(|| p.output.clone());
-    let frame = study.strat_frame();
-    let wells = condition_all(&study, &frame)?;
-    let blocked: Vec<&BlockedSample> = wells.iter().flat_map(|w| w.blocked.iter()).collect();
     let background = study.volumes.iter().find(|v| v.role == "background_vp0");
-    let mut warnings: Vec<String> = study.warnings.clone();
-    for w in &wells {
-        for n in &w.notes {
-            warnings.push(format!("well {}: {n}", w.name));
-        }
-    }
-
-    // kriging data, variograms and krigers per zone and property
     let mut zps: Vec<ZoneProperty> = Vec::new();
     for (zi, zdef) in p.zones.iter().enumerate() {
         let mut vp0_horizontal: Option<(f64, f64, f64)> = None;
@@ -388,6 +397,27 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             });
         }
     }
+
+    Ok(zps)
+}
+
+fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> {
+    let study = load(project_path, opts.progress)?;
+    let p = &study.project;
+    let g = &p.grid;
+    let out = opts.out.clone().unwrap_or_else(|| p.output.clone());
+    let frame = study.strat_frame();
+    let wells = condition_all(&study, &frame)?;
+    let blocked: Vec<&BlockedSample> = wells.iter().flat_map(|w| w.blocked.iter()).collect();
+    let background = study.volumes.iter().find(|v| v.role == "background_vp0");
+    let mut warnings: Vec<String> = study.warnings.clone();
+    for w in &wells {
+        for n in &w.notes {
+            warnings.push(format!("well {}: {n}", w.name));
+        }
+    }
+
+    let zps = prepare(&study, &frame, &blocked, &mut warnings)?;
 
     let params = NeighbourhoodParams::per_well(
         p.kriging.per_well,
