@@ -332,8 +332,8 @@ fn prepare(
                 (false, None) => samples.iter().map(|s| s.value - mean).collect(),
             };
             let (model, record) = zone_property_variogram(
-                &study,
-                &frame,
+                study,
+                frame,
                 zi,
                 pname,
                 &samples,
