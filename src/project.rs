@@ -1080,13 +1080,21 @@ impl Project {
             put(
                 "",
                 "epsilon",
-                &k.as_ref().and_then(|k| k.epsilon.clone()),
+                &Some(
+                    k.as_ref()
+                        .and_then(|k| k.epsilon.clone())
+                        .unwrap_or_else(|| "ordinary".into()),
+                ),
                 "kriging.epsilon".into(),
             )?;
             put(
                 "",
                 "delta",
-                &k.as_ref().and_then(|k| k.delta.clone()),
+                &Some(
+                    k.as_ref()
+                        .and_then(|k| k.delta.clone())
+                        .unwrap_or_else(|| "ordinary".into()),
+                ),
                 "kriging.delta".into(),
             )?;
             if let Some(k) = &k {

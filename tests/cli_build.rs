@@ -38,7 +38,10 @@ fn read_npy_f32(path: &Path) -> Vec<f32> {
         (u32::from_le_bytes([b[8], b[9], b[10], b[11]]) as usize, 12)
     };
     let header = std::str::from_utf8(&b[start..start + hlen]).unwrap();
-    assert!(header.contains("'<f4'") && header.contains("'fortran_order': False"), "{header}");
+    assert!(
+        header.contains("'<f4'") && header.contains("'fortran_order': False"),
+        "{header}"
+    );
     b[start + hlen..]
         .chunks_exact(4)
         .map(|c| f32::from_le_bytes([c[0], c[1], c[2], c[3]]))
@@ -59,7 +62,8 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
     let g = &project.grid;
 
     // the manifest names every volume, and files are identical for 1 and 2 threads
-    let m: serde_json::Value = serde_json::from_slice(&fs::read(o1.join("manifest.json")).unwrap()).unwrap();
+    let m: serde_json::Value =
+        serde_json::from_slice(&fs::read(o1.join("manifest.json")).unwrap()).unwrap();
     let vols = m["volumes"].as_array().unwrap();
     assert_eq!(vols.len(), 7);
     let mut data = std::collections::BTreeMap::new();
@@ -68,7 +72,11 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
         let a = fs::read(o1.join(rel)).unwrap();
         let b = fs::read(o2.join(rel)).unwrap();
         assert!(a == b, "{rel} differs between 1 and 2 threads");
-        let key = format!("{}_{}", v["property"].as_str().unwrap(), v["statistic"].as_str().unwrap());
+        let key = format!(
+            "{}_{}",
+            v["property"].as_str().unwrap(),
+            v["statistic"].as_str().unwrap()
+        );
         data.insert(key, read_volume_on_grid(&o1.join(rel), g).unwrap());
     }
     assert_eq!(m["zones"].as_array().unwrap().len(), project.zones.len());
@@ -82,7 +90,10 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
     let b = project.bounds;
     let mut inside = 0usize;
     for (k, &z) in zone.iter().enumerate() {
-        assert!(z == -1.0 || (z >= 0.0 && z < nzones && z.fract() == 0.0), "zone {z}");
+        assert!(
+            z == -1.0 || (z >= 0.0 && z < nzones && z.fract() == 0.0),
+            "zone {z}"
+        );
         let (e, dl) = (data["epsilon_mean"][k], data["delta_mean"][k]);
         for s in ["vp0_std", "epsilon_std", "delta_std"] {
             let v = data[s][k];
@@ -108,7 +119,8 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
     })
     .unwrap();
     let truth_zone = read_npy_f32(&demo.join("demo_truth/zone.npy"));
-    let background = read_volume_on_grid(&root().join("demo_volumes/background_vp0.sgy"), g).unwrap();
+    let background =
+        read_volume_on_grid(&root().join("demo_volumes/background_vp0.sgy"), g).unwrap();
     for (prop, key) in [("vp0", "vp0"), ("epsilon", "epsilon"), ("delta", "delta")] {
         let truth = read_npy_f32(&demo.join(format!("demo_truth/{prop}.npy")));
         assert_eq!(truth.len(), zone.len());
@@ -119,7 +131,10 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
                 .collect();
             assert!(cells.len() > 1000);
             let t: Vec<f64> = cells.iter().map(|&k| f64::from(truth[k])).collect();
-            let mean: Vec<f64> = cells.iter().map(|&k| f64::from(data[&format!("{key}_mean")][k])).collect();
+            let mean: Vec<f64> = cells
+                .iter()
+                .map(|&k| f64::from(data[&format!("{key}_mean")][k]))
+                .collect();
             let zone_mean = r1["zones"]
                 .as_array()
                 .unwrap()
@@ -131,15 +146,24 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
             let zm = vec![zone_mean; t.len()];
             let (r_prior, r_zone) = (rmse(&mean, &t), rmse(&zm, &t));
             eprintln!("{prop} zone {zi}: RMSE prior {r_prior:.5}, zone mean {r_zone:.5}");
-            assert!(r_prior < r_zone, "{prop} zone {zi}: prior {r_prior} not better than the zone mean {r_zone}");
+            assert!(
+                r_prior < r_zone,
+                "{prop} zone {zi}: prior {r_prior} not better than the zone mean {r_zone}"
+            );
             if prop == "vp0" {
                 let bg: Vec<f64> = cells.iter().map(|&k| f64::from(background[k])).collect();
                 let r_bg = rmse(&bg, &t);
                 eprintln!("vp0 zone {zi}: RMSE background {r_bg:.3}");
-                assert!(r_prior < r_bg, "vp0 zone {zi}: prior {r_prior} not better than the background {r_bg}");
+                assert!(
+                    r_prior < r_bg,
+                    "vp0 zone {zi}: prior {r_prior} not better than the background {r_bg}"
+                );
             }
             // the 90 % interval mean +/- 1.645 sd holds a sensible share of the truth
-            let sd: Vec<f64> = cells.iter().map(|&k| f64::from(data[&format!("{key}_std")][k])).collect();
+            let sd: Vec<f64> = cells
+                .iter()
+                .map(|&k| f64::from(data[&format!("{key}_std")][k]))
+                .collect();
             let cover = mean
                 .iter()
                 .zip(&t)
@@ -148,7 +172,10 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
                 .count() as f64
                 / t.len() as f64;
             eprintln!("{prop} zone {zi}: 90 % interval coverage {cover:.3}");
-            assert!(cover > 0.7 && cover < 0.99, "{prop} zone {zi}: coverage {cover}");
+            assert!(
+                cover > 0.7 && cover < 0.99,
+                "{prop} zone {zi}: coverage {cover}"
+            );
         }
     }
 }

@@ -346,3 +346,40 @@ fn inspect_bad_file_fails_cleanly() {
     fs::write(&p, vec![7u8; 5000]).unwrap();
     assert_fails_with(&run(&["inspect", p.to_str().unwrap()]), &["garbage.sgy"]);
 }
+
+#[test]
+fn readme_example_is_a_valid_project_equal_to_the_demo() {
+    // The annotated example in the README is the demo project plus defaults.
+    let readme = fs::read_to_string(root().join("README.md")).unwrap();
+    let start = readme.find("```toml\n").unwrap() + 8;
+    let end = start + readme[start..].find("```").unwrap();
+    let example = &readme[start..end];
+    let p = stratiprior::project::Project::from_toml(example, &root().join("readme-example.toml"))
+        .unwrap();
+    let demo = stratiprior::project::Project::load(&root().join("demo.toml")).unwrap();
+    assert_eq!(p.grid, demo.grid);
+    assert_eq!(p.zones.len(), demo.zones.len());
+    assert_eq!(p.horizons.len(), demo.horizons.len());
+    assert_eq!(p.facies, demo.facies);
+    assert_eq!(p.kriging, demo.kriging);
+    assert_eq!(p.conditioning, demo.conditioning);
+    assert_eq!(p.bounds, demo.bounds);
+}
+
+#[test]
+fn bad_prior_settings_are_named() {
+    let cases: [(&str, &str, &str); 5] = [
+        ("[kriging]\nvp0 = \"magic\"\n", "kriging.vp0", "not a kriging method"),
+        ("[conditioning]\nbackus_window = 10.0\nbackus_number = 0.3\ndominant_frequency = 20.0\n", "conditioning", "not both"),
+        ("[kriging.zones.Nowhere]\nepsilon = \"simple\"\n", "kriging.zones.Nowhere", "no zone"),
+        ("[bounds]\nepsilon = [0.5, -0.1]\n", "bounds.epsilon", "low < high"),
+        ("[variograms.Pellarin]\nporosity = { nugget = 0.0, structures = [] }\n", "variograms.Pellarin.porosity", "not a property"),
+    ];
+    for (extra, key, what) in cases {
+        let d = demo_copy();
+        let p = d.path().join("demo.toml");
+        let text = fs::read_to_string(&p).unwrap();
+        fs::write(&p, format!("{text}\n{extra}")).unwrap();
+        assert_fails_with(&check(d.path()), &[key, what]);
+    }
+}
