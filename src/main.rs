@@ -132,13 +132,9 @@ fn run(cli: Cli) -> anyhow::Result<()> {
             json,
             quiet,
         } => {
-            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let progress = show_progress(json, quiet);
             let report = stratiprior::check::run(&project, progress)?;
-            if json {
-                println!("{}", serde_json::to_string_pretty(&report)?);
-            } else if !quiet {
-                print!("{}", report.render_text());
-            }
+            emit(&report, json, quiet, || report.render_text())?;
         }
         Command::Build {
             project,
@@ -147,7 +143,7 @@ fn run(cli: Cli) -> anyhow::Result<()> {
             json,
             quiet,
         } => {
-            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let progress = show_progress(json, quiet);
             let report = stratiprior::prior::build::build(
                 &project,
                 &stratiprior::prior::build::BuildOptions {
@@ -156,11 +152,7 @@ fn run(cli: Cli) -> anyhow::Result<()> {
                     progress,
                 },
             )?;
-            if json {
-                println!("{}", serde_json::to_string_pretty(&report)?);
-            } else if !quiet {
-                print!("{}", report.render_text());
-            }
+            emit(&report, json, quiet, || report.render_text())?;
         }
         Command::Variogram {
             project,
@@ -168,13 +160,9 @@ fn run(cli: Cli) -> anyhow::Result<()> {
             json,
             quiet,
         } => {
-            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let progress = show_progress(json, quiet);
             let report = stratiprior::commands::variogram::run(&project, &out, progress)?;
-            if json {
-                println!("{}", serde_json::to_string_pretty(&report)?);
-            } else if !quiet {
-                print!("{}", report.render_text());
-            }
+            emit(&report, json, quiet, || report.render_text())?;
         }
         Command::Condition {
             project,
@@ -182,21 +170,13 @@ fn run(cli: Cli) -> anyhow::Result<()> {
             json,
             quiet,
         } => {
-            let progress = !quiet && !json && std::io::stderr().is_terminal();
+            let progress = show_progress(json, quiet);
             let report = stratiprior::commands::condition::run(&project, &out, progress)?;
-            if json {
-                println!("{}", serde_json::to_string_pretty(&report)?);
-            } else if !quiet {
-                print!("{}", report.render_text());
-            }
+            emit(&report, json, quiet, || report.render_text())?;
         }
         Command::Inspect { file, kind, json } => {
             let ins = stratiprior::inspect::inspect(&file, kind.map(Into::into), json)?;
-            if json {
-                println!("{}", serde_json::to_string_pretty(&ins)?);
-            } else {
-                print!("{}", ins.render_text());
-            }
+            emit(&ins, json, false, || ins.render_text())?;
         }
         Command::Demo { out, seed, quiet } => {
             let report = stratiprior::demo::generate(&stratiprior::demo::DemoOptions {
@@ -208,6 +188,26 @@ fn run(cli: Cli) -> anyhow::Result<()> {
                 println!("{}", serde_json::to_string_pretty(&report)?);
             }
         }
+    }
+    Ok(())
+}
+
+/// Progress bars only on a terminal, and not when output is scripted.
+fn show_progress(json: bool, quiet: bool) -> bool {
+    !quiet && !json && std::io::stderr().is_terminal()
+}
+
+/// Print a command's report: JSON, nothing, or its text rendering.
+fn emit<T: serde::Serialize>(
+    report: &T,
+    json: bool,
+    quiet: bool,
+    text: impl FnOnce() -> String,
+) -> anyhow::Result<()> {
+    if json {
+        println!("{}", serde_json::to_string_pretty(report)?);
+    } else if !quiet {
+        print!("{}", text());
     }
     Ok(())
 }
