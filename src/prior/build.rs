@@ -787,3 +787,27 @@ impl BuildReport {
         s
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn layer_interpolation_is_linear_between_centres_and_flat_beyond() {
+        let col = [(2usize, 0.0), (3, 0.0), (4, 0.0)];
+        let est = [(10.0, 1.0), (20.0, 2.0), (40.0, 4.0)];
+        assert_eq!(interpolate_layers(&col, &est, 1.0), (10.0, 1.0));
+        assert_eq!(interpolate_layers(&col, &est, 2.0), (10.0, 1.0));
+        assert_eq!(interpolate_layers(&col, &est, 2.5), (15.0, 1.5));
+        assert_eq!(interpolate_layers(&col, &est, 3.75), (35.0, 3.5));
+        assert_eq!(interpolate_layers(&col, &est, 9.0), (40.0, 4.0));
+    }
+
+    #[test]
+    fn least_squares_line_recovers_an_exact_line() {
+        let pts: Vec<(f64, f64)> = (0..10).map(|k| (k as f64, 3.0 + 0.5 * k as f64)).collect();
+        let (a, b) = depth_trend(&pts).unwrap();
+        assert!((a - 3.0).abs() < 1e-12 && (b - 0.5).abs() < 1e-12);
+        assert!(depth_trend(&[(1.0, 2.0), (1.0, 3.0)]).is_none());
+    }
+}
