@@ -1,8 +1,10 @@
-//! Geostatistics in stratigraphic coordinates: variograms, neighbourhoods, kriging.
+//! Geostatistics in stratigraphic coordinates: variograms, neighbourhoods, kriging,
+//! indicator kriging of facies.
 //!
 //! Coordinates are `(x, y, s)`: world x and y in metres and the stratigraphic
 //! coordinate `s` in metres (see the stratigraphic frame).
 
+pub mod indicator;
 pub mod kriging;
 pub mod neighbourhood;
 pub mod variogram;
