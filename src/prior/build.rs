@@ -31,6 +31,11 @@ use crate::condition::logs::condition_all;
 use crate::error::{Error, Result};
 use crate::formats::segy::{SegyWriter, VolumeMeta};
 use crate::frame::strat::StratFrame;
+use crate::geostat::indicator::{
+    blend_with_volume, label_probabilities, most_likely_facies, volume_probabilities,
+    weighted_proportions, FaciesSample, IndicatorFitOptions, IndicatorKriging, IndicatorMethod,
+    IndicatorOptions, IndicatorSetup,
+};
 use crate::geostat::kriging::{Kriger, KrigingKind, KrigingStats, Note, Sample, SampleSet, Target};
 use crate::geostat::neighbourhood::NeighbourhoodParams;
 use crate::geostat::variogram::VariogramModel;
@@ -92,6 +97,21 @@ pub struct ZonePropertyReport {
     pub clipped_cells: u64,
 }
 
+/// Facies estimation of one zone.
+#[derive(Debug, Clone, Serialize)]
+pub struct FaciesZoneReport {
+    /// Zone name.
+    pub zone: String,
+    /// Blocked samples with a facies.
+    pub samples: usize,
+    /// Wells contributing.
+    pub wells: usize,
+    /// Global proportions used as kriging means, by facies name.
+    pub proportions: Vec<(String, f64)>,
+    /// How the probabilities were made.
+    pub source: String,
+}
+
 /// What `build` did.
 #[derive(Debug, Clone, Serialize)]
 pub struct BuildReport {
@@ -105,13 +125,15 @@ pub struct BuildReport {
     pub cells_in_zones: u64,
     /// Depth cells outside every zone.
     pub cells_outside: u64,
+    /// Facies estimation per zone (empty when the project has no facies).
+    pub facies: Vec<FaciesZoneReport>,
     /// Warnings.
     pub warnings: Vec<String>,
 }
 
-/// One resampled trace: the seven volume values per depth sample, cells inside
-/// and outside zones, clipped cells per zone and property.
-type TraceResult = (Vec<[f32; 7]>, u64, u64, Vec<u64>);
+/// One resampled trace: `nvol` volume values per depth sample (flat, depth
+/// major), cells inside and outside zones, clipped cells per zone and property.
+type TraceResult = (Vec<f32>, u64, u64, Vec<u64>);
 
 struct ZoneProperty {
     zone: usize,
@@ -430,6 +452,32 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         .map(|zp| Kriger::new(&zp.samples, &zp.model, params, zp.kind))
         .collect::<Result<_>>()?;
 
+    // facies probabilities per zone: indicator kriging of the well facies,
+    // blended with a facies volume where one is given
+    let codes: Vec<i32> = p.facies.iter().map(|f| f.code).collect();
+    let facies_setups = prepare_facies(&study, &frame, &blocked, &zps, &mut warnings)?;
+    let facies_estimators: Vec<Option<IndicatorKriging<'_>>> = facies_setups
+        .iter()
+        .map(|s| s.as_ref().map(|s| s.estimator(params)).transpose())
+        .collect::<Result<_>>()?;
+    let label_volume = study.volumes.iter().find(|v| v.role == "facies");
+    let prob_volumes: Vec<Option<&crate::study::InputVolume>> = p
+        .facies
+        .iter()
+        .map(|f| {
+            study
+                .volumes
+                .iter()
+                .find(|v| v.role == format!("facies_probability:{}", f.name))
+        })
+        .collect();
+    let use_prob_volumes = prob_volumes.iter().all(|v| v.is_some()) && !prob_volumes.is_empty();
+    let nk = if facies_setups.iter().any(|s| s.is_some()) {
+        codes.len()
+    } else {
+        0
+    };
+
     // output files
     let inputs = p.input_paths();
     let vol_dir = out.join("volumes");
@@ -450,6 +498,26 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         "index".into(),
         vol_dir.join("zone.sgy"),
     ));
+    if nk > 0 {
+        for f in &p.facies {
+            metas.push((
+                format!("facies_probability:{}", f.name),
+                "value".into(),
+                "1".into(),
+                vol_dir.join(format!(
+                    "facies_probability_{}.sgy",
+                    crate::condition::output::file_stem(&f.name)
+                )),
+            ));
+        }
+        metas.push((
+            "facies".into(),
+            "value".into(),
+            "code".into(),
+            vol_dir.join("facies_most_likely.sgy"),
+        ));
+    }
+    let nvol = metas.len();
     let manifest_path = out.join("manifest.json");
     for (_, _, _, path) in &metas {
         refuse_overwrite_input(path, &inputs)?;
@@ -460,6 +528,10 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         let mut notes = vec![format!("project {}", p.name)];
         if prop == "zone" {
             notes.push("zone index from 0 as in manifest.json; -1 outside every zone".into());
+        } else if prop == "facies" {
+            notes.push("most likely facies code; -1 outside every zone".into());
+        } else if prop.starts_with("facies_probability") {
+            notes.push("probability of the facies; 0 outside every zone".into());
         } else {
             notes.push("outside every zone: see manifest.json outside_zones".into());
         }
@@ -557,20 +629,46 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     .collect(),
             );
         }
+        // facies probabilities on the layer centres
+        let mut fest: Vec<Option<crate::geostat::indicator::FaciesGrid>> =
+            Vec::with_capacity(nzones);
+        for (zi, fe) in facies_estimators.iter().enumerate() {
+            match fe {
+                None => fest.push(None),
+                Some(fe) => {
+                    let columns: Vec<Vec<Target>> = (0..nj)
+                        .map(|j| {
+                            let (x, y) = g.node_xy(i as f64, j as f64);
+                            layers[zi][j]
+                                .iter()
+                                .map(|&(l, _)| Target::at([x, y, frame.zones[zi].layer_centre(l)]))
+                                .collect()
+                        })
+                        .collect();
+                    fest.push(Some(fe.estimate_columns(&columns)?));
+                }
+            }
+        }
         // resample onto the depth grid, trace by trace
-        let traces: Vec<TraceResult> = (0..nj)
+        let traces: Vec<Result<TraceResult>> = (0..nj)
             .into_par_iter()
             .map(|j| {
-                let mut tr = vec![[0f32; 7]; nz];
+                let mut tr = vec![0f32; nz * nvol];
                 let (mut cin, mut cout) = (0u64, 0u64);
                 let mut clip = vec![0u64; zps.len()];
-                for (k, cell) in tr.iter_mut().enumerate() {
+                let mut facies_error: Option<Error> = None;
+                for (k, cell) in tr.chunks_exact_mut(nvol).enumerate() {
                     let Some(pos) = frame.locate_cell(g, i, j, k) else {
                         cout += 1;
                         let bg = background
                             .and_then(|b| b.data.get(g.trace_index(i, j) * nz + k).copied())
                             .unwrap_or(0.0);
-                        *cell = [bg, 0.0, 0.0, 0.0, 0.0, 0.0, -1.0];
+                        cell.fill(0.0);
+                        cell[0] = bg;
+                        cell[6] = -1.0;
+                        if nk > 0 {
+                            cell[7 + nk] = -1.0;
+                        }
                         continue;
                     };
                     cin += 1;
@@ -605,10 +703,67 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         cell[2 * zp.prop] = m as f32;
                         cell[2 * zp.prop + 1] = v.sqrt() as f32;
                     }
+                    if nk > 0 {
+                        let probs = facies_at(
+                            &fest[pos.zone],
+                            &facies_estimators[pos.zone],
+                            &layers[pos.zone][j],
+                            j,
+                            pos.s / zf.cell_thickness - 0.5,
+                            g.node_xy(i as f64, j as f64),
+                            pos.s,
+                            nk,
+                        );
+                        let cell_index = g.trace_index(i, j) * nz + k;
+                        let blended = match (probs, label_volume, use_prob_volumes) {
+                            (Ok((pk, ratio)), _, true) => {
+                                let pv: Vec<f64> = prob_volumes
+                                    .iter()
+                                    .map(|v| {
+                                        v.and_then(|v| v.data.get(cell_index))
+                                            .map_or(0.0, |x| f64::from(*x))
+                                    })
+                                    .collect();
+                                volume_probabilities(&pv).and_then(|pv| match pv {
+                                    Some(pv) => blend_with_volume(&pk, ratio, &pv),
+                                    None => Ok(pk),
+                                })
+                            }
+                            (Ok((pk, ratio)), Some(lv), false) => {
+                                let code = lv.data.get(cell_index).copied().unwrap_or(f32::NAN);
+                                label_probabilities(f64::from(code), &codes, 1.0).and_then(|pv| {
+                                    match pv {
+                                        Some(pv) => blend_with_volume(&pk, ratio, &pv),
+                                        None => Ok(pk),
+                                    }
+                                })
+                            }
+                            (Ok((pk, _)), None, false) => Ok(pk),
+                            (Err(e), _, _) => Err(e),
+                        };
+                        match blended {
+                            Ok(pr) => {
+                                for (f, v) in pr.iter().enumerate() {
+                                    cell[7 + f] = *v as f32;
+                                }
+                                cell[7 + nk] =
+                                    most_likely_facies(&pr, &codes).map_or(-1.0, |c| c as f32);
+                            }
+                            Err(e) => {
+                                if facies_error.is_none() {
+                                    facies_error = Some(e);
+                                }
+                            }
+                        }
+                    }
                 }
-                (tr, cin, cout, clip)
+                if let Some(e) = facies_error {
+                    return Err(e);
+                }
+                Ok((tr, cin, cout, clip))
             })
             .collect();
+        let traces: Vec<TraceResult> = traces.into_iter().collect::<Result<_>>()?;
         let mut buf = vec![0f32; nz];
         for (tr, cin, cout, clip) in &traces {
             cells_in += cin;
@@ -618,7 +773,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             }
             for (v, w) in writers.iter_mut().enumerate() {
                 for (k, b) in buf.iter_mut().enumerate() {
-                    *b = tr[k][v];
+                    *b = tr[k * nvol + v];
                 }
                 w.write_trace(&buf)?;
             }
@@ -632,6 +787,33 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
 
     // reports and manifest
     drop(krigers);
+    drop(facies_estimators);
+    let facies_reports: Vec<FaciesZoneReport> = facies_setups
+        .iter()
+        .enumerate()
+        .filter_map(|(zi, s)| {
+            s.as_ref().map(|s| FaciesZoneReport {
+                zone: p.zones[zi].name.clone(),
+                samples: s.sample_count(),
+                wells: s.well_count(),
+                proportions: p
+                    .facies
+                    .iter()
+                    .zip(s.proportions())
+                    .map(|(f, q)| (f.name.clone(), *q))
+                    .collect(),
+                source: match (use_prob_volumes, label_volume.is_some()) {
+                    (true, _) => {
+                        "indicator kriging blended with the facies probability volumes".into()
+                    }
+                    (false, true) => {
+                        "indicator kriging blended with the facies-label volume".into()
+                    }
+                    _ => "indicator kriging of the well facies".into(),
+                },
+            })
+        })
+        .collect();
     let mut zones = Vec::with_capacity(zps.len());
     for (q, zp) in zps.into_iter().enumerate() {
         let mut r = zp.report;
@@ -688,6 +870,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         zones,
         cells_in_zones: cells_in,
         cells_outside: cells_out,
+        facies: facies_reports,
         warnings,
     };
     let text = serde_json::to_string_pretty(&report)
@@ -699,6 +882,124 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     });
     manifest.write(&manifest_path)?;
     Ok(report)
+}
+
+/// Indicator-kriging setups of every zone (None for zones without facies data
+/// or projects without facies).
+fn prepare_facies(
+    study: &Study,
+    frame: &StratFrame,
+    blocked: &[&BlockedSample],
+    zps: &[ZoneProperty],
+    warnings: &mut Vec<String>,
+) -> Result<Vec<Option<IndicatorSetup>>> {
+    let p = &study.project;
+    let g = &p.grid;
+    let codes: Vec<i32> = p.facies.iter().map(|f| f.code).collect();
+    let mut out = Vec::with_capacity(p.zones.len());
+    if codes.is_empty() {
+        out.resize_with(p.zones.len(), || None);
+        return Ok(out);
+    }
+    let corners = g.corners();
+    let diag =
+        ((corners[0].0 - corners[2].0).powi(2) + (corners[0].1 - corners[2].1).powi(2)).sqrt();
+    let spacing = g.inline_spacing.max(g.xline_spacing);
+    for (zi, zf) in frame.zones.iter().enumerate() {
+        let mut fs = Vec::new();
+        for b in blocked.iter().filter(|b| b.zone == zi) {
+            if let Some(s) = FaciesSample::from_blocked(
+                b,
+                zf.layer_centre(b.layer),
+                &codes,
+                true,
+                study.wells[b.well].name(),
+            )? {
+                fs.push(s);
+            }
+        }
+        if fs.is_empty() {
+            if study
+                .wells
+                .iter()
+                .any(|w| w.logs.contains_key(&crate::project::CurveProperty::Facies))
+            {
+                warnings.push(format!(
+                    "zone {}: no facies samples; no facies probabilities",
+                    zf.name
+                ));
+            }
+            out.push(None);
+            continue;
+        }
+        let proportions = weighted_proportions(&fs, None)?;
+        let vp0 = zps
+            .iter()
+            .find(|z| z.zone == zi && z.prop == 0)
+            .map(|z| &z.model);
+        let fallback = vp0
+            .and_then(|m| m.search_structure())
+            .map(|s| (s.range_major, s.range_minor, s.azimuth));
+        let opts = IndicatorOptions {
+            method: IndicatorMethod::Simple,
+            fit: IndicatorFitOptions::for_zone(
+                zf.cell_thickness,
+                zf.reference_thickness,
+                diag,
+                spacing,
+                fallback,
+            )?,
+            overrides: Vec::new(),
+            ratio_model: vp0.cloned(),
+        };
+        let setup = IndicatorSetup::prepare(&fs, &codes, &proportions, &opts)?;
+        warnings.extend(
+            setup
+                .warnings()
+                .iter()
+                .map(|w| format!("zone {} facies: {w}", zf.name)),
+        );
+        out.push(Some(setup));
+    }
+    Ok(out)
+}
+
+/// Facies probabilities and kriging-variance ratio at fractional layer position
+/// `u` of column `j`, linear between layer centres (a convex combination of
+/// probability vectors stays one); thin columns are kriged at the cell itself.
+#[allow(clippy::too_many_arguments)]
+fn facies_at(
+    grid: &Option<crate::geostat::indicator::FaciesGrid>,
+    est: &Option<IndicatorKriging<'_>>,
+    col: &[(usize, f64)],
+    j: usize,
+    u: f64,
+    xy: (f64, f64),
+    s: f64,
+    nk: usize,
+) -> Result<(Vec<f64>, f64)> {
+    let (Some(grid), Some(est)) = (grid, est) else {
+        // a zone without facies data: no information, uniform probabilities
+        return Ok((vec![1.0 / nk as f64; nk], 1.0));
+    };
+    let c = &grid.columns[j];
+    if col.is_empty() || c.len() == 0 {
+        return est.estimate(&Target::at([xy.0, xy.1, s]));
+    }
+    let first = col[0].0 as f64;
+    let last = col[col.len() - 1].0 as f64;
+    let (a, b, f) = if u <= first {
+        (0, 0, 0.0)
+    } else if u >= last {
+        (col.len() - 1, col.len() - 1, 0.0)
+    } else {
+        let k = ((u - first).floor() as usize).min(col.len() - 2);
+        (k, k + 1, u - col[k].0 as f64)
+    };
+    let (pa, pb) = (c.target(a), c.target(b));
+    let p = pa.iter().zip(pb).map(|(x, y)| x + f * (y - x)).collect();
+    let r = c.variance_ratio[a] + f * (c.variance_ratio[b] - c.variance_ratio[a]);
+    Ok((p, r))
 }
 
 /// Linear interpolation of (mean, variance) at fractional layer position `u`
