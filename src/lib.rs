@@ -31,6 +31,7 @@ pub mod prior;
 pub mod project;
 pub mod study;
 pub mod units;
+pub mod validation;
 
 pub use error::{Error, Result};
 pub use grid::SurveyGrid;

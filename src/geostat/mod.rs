@@ -4,6 +4,7 @@
 //! Coordinates are `(x, y, s)`: world x and y in metres and the stratigraphic
 //! coordinate `s` in metres (see the stratigraphic frame).
 
+pub mod decluster;
 pub mod indicator;
 pub mod kriging;
 pub mod neighbourhood;
