@@ -65,7 +65,8 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
     let m: serde_json::Value =
         serde_json::from_slice(&fs::read(o1.join("manifest.json")).unwrap()).unwrap();
     let vols = m["volumes"].as_array().unwrap();
-    assert_eq!(vols.len(), 7);
+    // mean and std of three properties, zone, one probability per facies, most likely facies
+    assert_eq!(vols.len(), 7 + project.facies.len() + 1);
     let mut data = std::collections::BTreeMap::new();
     for v in vols {
         let rel = v["path"].as_str().unwrap();
@@ -110,6 +111,38 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
         }
     }
     assert_eq!(inside as u64, r1["cells_in_zones"].as_u64().unwrap());
+
+    // facies probabilities lie in [0, 1] and sum to 1 in every cell of a zone
+    // (f32 on disk), and the most likely facies is their argmax
+    let probs: Vec<&Vec<f32>> = project
+        .facies
+        .iter()
+        .map(|f| &data[&format!("facies_probability:{}_value", f.name)])
+        .collect();
+    let ml = &data["facies_value"];
+    for (k, &z) in zone.iter().enumerate() {
+        if z < 0.0 {
+            assert_eq!(ml[k], -1.0);
+            continue;
+        }
+        let p: Vec<f32> = probs.iter().map(|v| v[k]).collect();
+        assert!(p.iter().all(|&q| (0.0..=1.0).contains(&q)), "{p:?}");
+        let sum: f32 = p.iter().sum();
+        assert!((sum - 1.0).abs() < 1e-5, "sum {sum}");
+        let best = p
+            .iter()
+            .enumerate()
+            .fold(0, |b, (i, &q)| if q > p[b] { i } else { b });
+        assert!(
+            p[best]
+                - p[project
+                    .facies
+                    .iter()
+                    .position(|f| f.code as f32 == ml[k])
+                    .unwrap()]
+                < 1e-6
+        );
+    }
 
     // against the demo truth: the generator writes it next to a fresh demo
     let demo = d.path().join("demo");
