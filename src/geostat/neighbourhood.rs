@@ -115,6 +115,10 @@ enum Shape {
         t: Vec<f64>,
         /// Global sample index for each abscissa.
         item: Vec<u32>,
+        /// Order of `item`: 1 ascending, -1 descending, 0 neither.
+        order: i8,
+        /// `(n - 1) / (t_last - t_first)`: inverse mean spacing, for a first guess.
+        inv_dt: f64,
     },
     /// General trajectory: a kd-tree of the scaled positions.
     Cloud {
@@ -124,6 +128,43 @@ enum Shape {
         lo: [f64; 3],
         hi: [f64; 3],
     },
+}
+
+/// What the lower bound of a well's distance needs (kept contiguous).
+#[derive(Debug, Clone, Copy)]
+enum Bound {
+    /// Segment `p0 + t u`, `t0 <= t <= t1`.
+    Line {
+        p0: [f64; 3],
+        u: [f64; 3],
+        t0: f64,
+        t1: f64,
+    },
+    /// Bounding box.
+    Box { lo: [f64; 3], hi: [f64; 3] },
+}
+
+impl Bound {
+    #[inline]
+    fn lower2(&self, q: [f64; 3]) -> f64 {
+        match *self {
+            Bound::Line { p0, u, t0, t1 } => {
+                let e = sub(q, p0);
+                let ts = dot3(e, u);
+                let perp2 = (dot3(e, e) - ts * ts).max(0.0);
+                let out_of = (t0 - ts).max(ts - t1).max(0.0);
+                perp2 + out_of * out_of
+            }
+            Bound::Box { lo, hi } => {
+                let mut s = 0.0;
+                for k in 0..3 {
+                    let d = (lo[k] - q[k]).max(q[k] - hi[k]).max(0.0);
+                    s += d * d;
+                }
+                s
+            }
+        }
+    }
 }
 
 /// One candidate well of a search.
@@ -141,7 +182,6 @@ struct Hit {
 pub struct SearchScratch {
     order: Vec<(f64, u32)>,
     hits: Vec<Hit>,
-    best: Vec<f64>,
     cand: Vec<(f64, u32)>,
     pick: Vec<(f64, u32)>,
 }
@@ -152,6 +192,8 @@ pub struct WellIndex {
     params: NeighbourhoodParams,
     scaled: Vec<[f64; 3]>,
     wells: Vec<Shape>,
+    /// Compact copy of what the lower bounds need, one per well.
+    bounds: Vec<Bound>,
     line_wells: usize,
 }
 
@@ -183,6 +225,40 @@ fn scaled_positions<M: CovarianceModel + ?Sized>(
     Ok(out)
 }
 
+/// Sort by (value, index) by insertion: linear on nearly sorted input.
+fn insertion_sort(v: &mut [(f64, u32)]) {
+    let less = |a: &(f64, u32), b: &(f64, u32)| a.0 < b.0 || (a.0 == b.0 && a.1 < b.1);
+    for i in 1..v.len() {
+        let x = v[i];
+        let mut j = i;
+        while j > 0 && less(&x, &v[j - 1]) {
+            v[j] = v[j - 1];
+            j -= 1;
+        }
+        v[j] = x;
+    }
+}
+
+/// The first index `i` with `t[i] >= ts` (`t` ascending), starting from the
+/// guess of a uniform spacing and falling back to a binary search.
+#[inline]
+fn partition_at(t: &[f64], ts: f64, t0: f64, inv_dt: f64) -> usize {
+    let len = t.len();
+    let g = (ts - t0) * inv_dt;
+    if g.is_finite() && g > 0.0 && g < len as f64 {
+        // ceil without a libm call (g is positive and finite here)
+        let f = g as usize;
+        let i = if (f as f64) < g { f + 1 } else { f };
+        // exact when t[i-1] < ts <= t[i]; one step either way is checked too
+        for c in [i, i + 1, i.wrapping_sub(1)] {
+            if c <= len && (c == 0 || t[c - 1] < ts) && (c == len || t[c] >= ts) {
+                return c;
+            }
+        }
+    }
+    t.partition_point(|&ti| ti < ts)
+}
+
 /// Try to describe scaled points as a straight line.
 fn as_line(pts: &[[f64; 3]], items: &[u32]) -> Option<Shape> {
     let first = *pts.first()?;
@@ -209,11 +285,28 @@ fn as_line(pts: &[[f64; 3]], items: &[u32]) -> Option<Shape> {
         pairs.push((t, it));
     }
     pairs.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+    let item: Vec<u32> = pairs.iter().map(|p| p.1).collect();
+    let order = if item.windows(2).all(|w| w[0] < w[1]) {
+        1
+    } else if item.windows(2).all(|w| w[0] > w[1]) {
+        -1
+    } else {
+        0
+    };
+    let t: Vec<f64> = pairs.iter().map(|p| p.0).collect();
+    let span = t.last().copied().unwrap_or(0.0) - t.first().copied().unwrap_or(0.0);
+    let inv_dt = if span > 0.0 {
+        (t.len() - 1) as f64 / span
+    } else {
+        0.0
+    };
     Some(Shape::Line {
         p0: first,
         u,
-        t: pairs.iter().map(|p| p.0).collect(),
-        item: pairs.iter().map(|p| p.1).collect(),
+        t,
+        item,
+        order,
+        inv_dt,
     })
 }
 
@@ -261,10 +354,23 @@ impl WellIndex {
                 }
             }
         }
+        let bounds = wells
+            .iter()
+            .map(|w| match w {
+                Shape::Line { p0, u, t, .. } => Bound::Line {
+                    p0: *p0,
+                    u: *u,
+                    t0: t.first().copied().unwrap_or(0.0),
+                    t1: t.last().copied().unwrap_or(0.0),
+                },
+                Shape::Cloud { lo, hi, .. } => Bound::Box { lo: *lo, hi: *hi },
+            })
+            .collect();
         Ok(WellIndex {
             params,
             scaled,
             wells,
+            bounds,
             line_wells,
         })
     }
@@ -308,101 +414,136 @@ impl WellIndex {
         if !q.iter().all(|c| c.is_finite()) {
             return;
         }
-        // Lower bounds of every well's distance.
-        scratch.order.clear();
-        for (w, shape) in self.wells.iter().enumerate() {
-            let lb2 = match shape {
-                Shape::Line { p0, u, t, .. } => {
-                    let e = sub(q, *p0);
-                    let ts = dot3(e, *u);
-                    let perp2 = (dot3(e, e) - ts * ts).max(0.0);
-                    let (t0, t1) = (t[0], t[t.len() - 1]);
-                    let out_of = (t0 - ts).max(ts - t1).max(0.0);
-                    perp2 + out_of * out_of
-                }
-                Shape::Cloud { lo, hi, .. } => {
-                    let mut s = 0.0;
-                    for k in 0..3 {
-                        let d = (lo[k] - q[k]).max(q[k] - hi[k]).max(0.0);
-                        s += d * d;
-                    }
-                    s
-                }
-            };
-            if lb2 <= r2 {
-                scratch.order.push((lb2, w as u32));
-            }
+        // Lower bounds of every well's distance, sorted by (bound, well). The
+        // order of the previous call is kept and re-sorted by insertion: along a
+        // column it barely changes, so this is nearly linear. (The result is the
+        // same whatever the starting order: (bound, well) is a total order.)
+        if scratch.order.len() != self.wells.len() {
+            scratch.order.clear();
+            scratch
+                .order
+                .extend((0..self.wells.len() as u32).map(|w| (0.0, w)));
         }
-        scratch
-            .order
-            .sort_unstable_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        for entry in scratch.order.iter_mut() {
+            entry.0 = self.bounds[entry.1 as usize].lower2(q);
+        }
+        insertion_sort(&mut scratch.order);
         scratch.hits.clear();
-        scratch.best.clear();
         scratch.cand.clear();
         let m = p.max_wells;
+        // Visit wells by increasing bound; once m wells have samples, only a
+        // well whose bound is below the m-th best distance can still enter.
+        let mut thr = r2;
         for &(lb2, w) in &scratch.order {
-            if scratch.best.len() >= m && lb2 > scratch.best[m - 1] + TIE_EPS {
+            if lb2 > thr || lb2 > r2 {
                 break;
             }
-            let start = scratch.cand.len();
-            self.search_well(w as usize, q, r2, p.max_per_well, &mut scratch.cand);
-            let end = scratch.cand.len();
-            if end > start {
-                let near2 = scratch.cand[start..end]
-                    .iter()
-                    .map(|c| c.0)
-                    .fold(f64::INFINITY, f64::min);
-                scratch.hits.push(Hit {
-                    near2,
-                    well: w,
-                    start: start as u32,
-                    end: end as u32,
-                });
-                let pos = scratch.best.partition_point(|&b| b <= near2);
-                if pos < m {
-                    scratch.best.insert(pos, near2);
-                    scratch.best.truncate(m);
-                }
+            self.visit(
+                w,
+                q,
+                r2,
+                p.max_per_well,
+                &mut scratch.hits,
+                &mut scratch.cand,
+            );
+            if scratch.hits.len() == m && thr == r2 {
+                thr = scratch.hits.iter().map(|h| h.near2).fold(0.0, f64::max) + TIE_EPS;
             }
         }
-        scratch.pick.clear();
         if scratch.hits.len() > m {
             scratch
                 .hits
-                .sort_by(|a, b| a.near2.total_cmp(&b.near2).then(a.well.cmp(&b.well)));
+                .sort_unstable_by(|a, b| a.near2.total_cmp(&b.near2).then(a.well.cmp(&b.well)));
             scratch.hits.truncate(m);
         }
+        // Wells occupy ascending, disjoint index ranges and each well's chunk is
+        // ascending: in well order the concatenation is sorted.
+        scratch.hits.sort_unstable_by_key(|h| h.well);
+        let total: usize = scratch
+            .hits
+            .iter()
+            .map(|h| (h.end - h.start) as usize)
+            .sum();
+        let n = p.max_total;
+        if total <= n {
+            for h in &scratch.hits {
+                out.extend(
+                    scratch.cand[h.start as usize..h.end as usize]
+                        .iter()
+                        .map(|c| c.1),
+                );
+            }
+            return;
+        }
+        scratch.pick.clear();
         for h in &scratch.hits {
             scratch
                 .pick
                 .extend_from_slice(&scratch.cand[h.start as usize..h.end as usize]);
         }
-        let n = p.max_total;
-        if scratch.pick.len() > n {
-            scratch
-                .pick
-                .select_nth_unstable_by(n - 1, |a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
-            scratch.pick.truncate(n);
-        }
+        scratch
+            .pick
+            .select_nth_unstable_by(n - 1, |a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        scratch.pick.truncate(n);
         out.extend(scratch.pick.iter().map(|c| c.1));
         out.sort_unstable();
     }
 
+    /// Search well `w` and record it as a hit if it has samples in the radius.
+    fn visit(
+        &self,
+        w: u32,
+        q: [f64; 3],
+        r2: f64,
+        k: usize,
+        hits: &mut Vec<Hit>,
+        cand: &mut Vec<(f64, u32)>,
+    ) {
+        let start = cand.len();
+        let near2 = self.search_well(w as usize, q, r2, k, cand);
+        let end = cand.len();
+        if end > start {
+            hits.push(Hit {
+                near2,
+                well: w,
+                start: start as u32,
+                end: end as u32,
+            });
+        }
+    }
+
     /// Append up to `k` nearest samples of well `w` within `r2` (squared) as
-    /// `(squared distance, sample index)`.
-    fn search_well(&self, w: usize, q: [f64; 3], r2: f64, k: usize, cand: &mut Vec<(f64, u32)>) {
+    /// `(squared distance, sample index)`, in ascending sample index; return the
+    /// smallest squared distance (infinite when none).
+    fn search_well(
+        &self,
+        w: usize,
+        q: [f64; 3],
+        r2: f64,
+        k: usize,
+        cand: &mut Vec<(f64, u32)>,
+    ) -> f64 {
         let Some(shape) = self.wells.get(w) else {
-            return;
+            return f64::INFINITY;
         };
         match shape {
-            Shape::Line { p0, u, t, item } => {
+            Shape::Line {
+                p0,
+                u,
+                t,
+                item,
+                order,
+                inv_dt,
+            } => {
                 let e = sub(q, *p0);
                 let ts = dot3(e, *u);
                 let perp2 = (dot3(e, e) - ts * ts).max(0.0);
                 let len = t.len();
-                let mut hi = t.partition_point(|&ti| ti < ts);
+                let mut hi = partition_at(t, ts, t[0], *inv_dt);
                 let mut lo = hi;
+                let mut near2 = f64::INFINITY;
                 let mut taken = 0;
+                // Two-sided walk: the picked samples are the window lo..hi.
                 while taken < k {
                     let dl = if lo > 0 {
                         ts - t[lo - 1]
@@ -419,26 +560,44 @@ impl WellIndex {
                     if d2 > r2 {
                         break;
                     }
+                    near2 = near2.min(d2);
                     if take_lo {
                         lo -= 1;
-                        cand.push((d2, item[lo]));
                     } else {
-                        cand.push((d2, item[hi]));
                         hi += 1;
                     }
                     taken += 1;
                 }
+                let at = |i: usize| {
+                    let d = t[i] - ts;
+                    (perp2 + d * d, item[i])
+                };
+                let start = cand.len();
+                match order {
+                    1 => cand.extend((lo..hi).map(at)),
+                    -1 => cand.extend((lo..hi).rev().map(at)),
+                    _ => {
+                        cand.extend((lo..hi).map(at));
+                        cand[start..].sort_unstable_by_key(|c| c.1);
+                    }
+                }
+                near2
             }
             Shape::Cloud { tree, item, .. } => {
                 let Some(kk) = NonZero::new(k.min(item.len())) else {
-                    return;
+                    return f64::INFINITY;
                 };
-                let found = tree.nearest_n_within::<SquaredEuclidean>(&q, r2, kk, true);
+                let found = tree.nearest_n_within::<SquaredEuclidean>(&q, r2, kk, false);
+                let start = cand.len();
+                let mut near2 = f64::INFINITY;
                 for nb in found {
                     if let Some(&it) = item.get(nb.item as usize) {
+                        near2 = near2.min(nb.distance);
                         cand.push((nb.distance, it));
                     }
                 }
+                cand[start..].sort_unstable_by_key(|c| c.1);
+                near2
             }
         }
     }
