@@ -25,7 +25,7 @@
 
 use std::time::Instant;
 use stratiprior::geostat::kriging::{Kriger, KrigingKind, Sample, SampleSet, Target};
-use stratiprior::geostat::neighbourhood::NeighbourhoodParams;
+use stratiprior::geostat::neighbourhood::{NeighbourhoodParams, SearchScratch};
 use stratiprior::geostat::CovarianceModel;
 
 /// Anisotropic exponential covariance `C(d) = c exp(-|A d|)`, with `A` the
@@ -150,6 +150,27 @@ fn main() {
         nwells, nsamples, cells
     );
     println!("setup (sample set index): {:.3} ms", setup * 1e3);
+
+    // The neighbourhood search alone (1 thread), for the cost breakdown.
+    {
+        let index = kr.index();
+        let mut scratch = SearchScratch::default();
+        let mut nb = Vec::new();
+        let mut count = 0usize;
+        let t = Instant::now();
+        for col in &columns {
+            for tg in col {
+                index.search(model.to_isotropic(tg.pos), &mut scratch, &mut nb);
+                count += nb.len();
+            }
+        }
+        let dt = t.elapsed().as_secs_f64();
+        println!(
+            "neighbourhood search alone, 1 thread: {dt:.3} s, {:.0} targets/s ({:.1} neighbours on average)",
+            cells / dt,
+            count as f64 / cells
+        );
+    }
 
     let mut results = Vec::new();
     for &threads in &thread_counts {

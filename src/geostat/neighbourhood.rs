@@ -3,9 +3,10 @@
 //! Well data are dense along the wells and sparse between them: a plain
 //! "nearest n samples" search around a target usually takes all of its samples
 //! from the one or two nearest wells, and the kriging then cannot see the
-//! lateral variation. [`WellIndex`] applies a per-well limit instead
-//! (common practice in reservoir geostatistics, e.g. the octant/"max per drillhole"
-//! rule, Deutsch and Journel 1998, *GSLIB*, 2nd ed., sec. IV.1 `ndmax`/`noct`):
+//! lateral variation. [`WellIndex`] applies a per-well limit instead, the
+//! "maximum samples per drillhole" restriction of resource estimation (common
+//! practice; related to the octant search of GSLIB `kt3d`, Deutsch and Journel
+//! 1998, *GSLIB*, 2nd ed., which limits samples per octant):
 //!
 //! * the search is done in anisotropy-scaled space
 //!   ([`CovarianceModel::to_isotropic`]), where distance measures how far apart
@@ -119,6 +120,8 @@ enum Shape {
         order: i8,
         /// `(n - 1) / (t_last - t_first)`: inverse mean spacing, for a first guess.
         inv_dt: f64,
+        /// `t` padded with `-inf` before and `+inf` after.
+        tpad: Vec<f64>,
     },
     /// General trajectory: a kd-tree of the scaled positions.
     Cloud {
@@ -151,14 +154,18 @@ impl Bound {
             Bound::Line { p0, u, t0, t1 } => {
                 let e = sub(q, p0);
                 let ts = dot3(e, u);
-                let perp2 = (dot3(e, e) - ts * ts).max(0.0);
-                let out_of = (t0 - ts).max(ts - t1).max(0.0);
+                let perp2 = pos_part(dot3(e, e) - ts * ts);
+                let out_of = pos_part(if ts < t0 { t0 - ts } else { ts - t1 });
                 perp2 + out_of * out_of
             }
             Bound::Box { lo, hi } => {
                 let mut s = 0.0;
                 for k in 0..3 {
-                    let d = (lo[k] - q[k]).max(q[k] - hi[k]).max(0.0);
+                    let d = pos_part(if q[k] < lo[k] {
+                        lo[k] - q[k]
+                    } else {
+                        q[k] - hi[k]
+                    });
                     s += d * d;
                 }
                 s
@@ -173,8 +180,13 @@ struct Hit {
     /// Squared scaled distance to the well's nearest sample in the radius.
     near2: f64,
     well: u32,
-    start: u32,
-    end: u32,
+    /// Line well: the window `a..b` of abscissa indices. Cloud well: the range
+    /// `a..b` of its candidates in the scratch candidate list.
+    a: u32,
+    b: u32,
+    /// Squared perpendicular distance and abscissa of the query (line wells).
+    perp2: f64,
+    ts: f64,
 }
 
 /// Reusable buffers of [`WellIndex::search`] (one per thread).
@@ -225,11 +237,24 @@ fn scaled_positions<M: CovarianceModel + ?Sized>(
     Ok(out)
 }
 
+/// `max(x, 0)` for finite `x` (plain comparison, no NaN handling needed).
+#[inline(always)]
+fn pos_part(x: f64) -> f64 {
+    if x > 0.0 {
+        x
+    } else {
+        0.0
+    }
+}
+
 /// Sort by (value, index) by insertion: linear on nearly sorted input.
 fn insertion_sort(v: &mut [(f64, u32)]) {
     let less = |a: &(f64, u32), b: &(f64, u32)| a.0 < b.0 || (a.0 == b.0 && a.1 < b.1);
     for i in 1..v.len() {
         let x = v[i];
+        if !less(&x, &v[i - 1]) {
+            continue;
+        }
         let mut j = i;
         while j > 0 && less(&x, &v[j - 1]) {
             v[j] = v[j - 1];
@@ -240,20 +265,23 @@ fn insertion_sort(v: &mut [(f64, u32)]) {
 }
 
 /// The first index `i` with `t[i] >= ts` (`t` ascending), starting from the
-/// guess of a uniform spacing and falling back to a binary search.
+/// guess of a uniform spacing (one step either way) and falling back to a
+/// binary search.
 #[inline]
 fn partition_at(t: &[f64], ts: f64, t0: f64, inv_dt: f64) -> usize {
     let len = t.len();
     let g = (ts - t0) * inv_dt;
-    if g.is_finite() && g > 0.0 && g < len as f64 {
-        // ceil without a libm call (g is positive and finite here)
-        let f = g as usize;
-        let i = if (f as f64) < g { f + 1 } else { f };
-        // exact when t[i-1] < ts <= t[i]; one step either way is checked too
-        for c in [i, i + 1, i.wrapping_sub(1)] {
-            if c <= len && (c == 0 || t[c - 1] < ts) && (c == len || t[c] >= ts) {
-                return c;
+    if g >= 0.0 && g < len as f64 {
+        let mut i = g as usize; // floor
+        if t[i] < ts {
+            i += 1;
+            if i == len || t[i] >= ts {
+                return i;
             }
+        } else if i == 0 || t[i - 1] < ts {
+            return i;
+        } else if i == 1 || t[i - 2] < ts {
+            return i - 1;
         }
     }
     t.partition_point(|&ti| ti < ts)
@@ -300,6 +328,10 @@ fn as_line(pts: &[[f64; 3]], items: &[u32]) -> Option<Shape> {
     } else {
         0.0
     };
+    let mut tpad = Vec::with_capacity(t.len() + 2);
+    tpad.push(f64::NEG_INFINITY);
+    tpad.extend_from_slice(&t);
+    tpad.push(f64::INFINITY);
     Some(Shape::Line {
         p0: first,
         u,
@@ -307,6 +339,7 @@ fn as_line(pts: &[[f64; 3]], items: &[u32]) -> Option<Shape> {
         item,
         order,
         inv_dt,
+        tpad,
     })
 }
 
@@ -456,30 +489,30 @@ impl WellIndex {
                 .sort_unstable_by(|a, b| a.near2.total_cmp(&b.near2).then(a.well.cmp(&b.well)));
             scratch.hits.truncate(m);
         }
-        // Wells occupy ascending, disjoint index ranges and each well's chunk is
-        // ascending: in well order the concatenation is sorted.
+        // Wells occupy ascending, disjoint index ranges and each well's part is
+        // emitted in ascending order: in well order the concatenation is sorted.
         scratch.hits.sort_unstable_by_key(|h| h.well);
-        let total: usize = scratch
-            .hits
-            .iter()
-            .map(|h| (h.end - h.start) as usize)
-            .sum();
+        let total: usize = scratch.hits.iter().map(|h| (h.b - h.a) as usize).sum();
         let n = p.max_total;
         if total <= n {
             for h in &scratch.hits {
-                out.extend(
-                    scratch.cand[h.start as usize..h.end as usize]
-                        .iter()
-                        .map(|c| c.1),
-                );
+                self.emit(h, &scratch.cand, out);
             }
             return;
         }
         scratch.pick.clear();
         for h in &scratch.hits {
-            scratch
-                .pick
-                .extend_from_slice(&scratch.cand[h.start as usize..h.end as usize]);
+            match self.wells.get(h.well as usize) {
+                Some(Shape::Line { t, item, .. }) => {
+                    scratch.pick.extend((h.a as usize..h.b as usize).map(|i| {
+                        let d = t[i] - h.ts;
+                        (h.perp2 + d * d, item[i])
+                    }));
+                }
+                _ => scratch
+                    .pick
+                    .extend_from_slice(&scratch.cand[h.a as usize..h.b as usize]),
+            }
         }
         scratch
             .pick
@@ -487,6 +520,23 @@ impl WellIndex {
         scratch.pick.truncate(n);
         out.extend(scratch.pick.iter().map(|c| c.1));
         out.sort_unstable();
+    }
+
+    /// Append the samples of one hit to `out` in ascending index order.
+    fn emit(&self, h: &Hit, cand: &[(f64, u32)], out: &mut Vec<u32>) {
+        let (a, b) = (h.a as usize, h.b as usize);
+        match self.wells.get(h.well as usize) {
+            Some(Shape::Line { item, order, .. }) => match order {
+                1 => out.extend_from_slice(&item[a..b]),
+                -1 => out.extend(item[a..b].iter().rev()),
+                _ => {
+                    let start = out.len();
+                    out.extend_from_slice(&item[a..b]);
+                    out[start..].sort_unstable();
+                }
+            },
+            _ => out.extend(cand[a..b].iter().map(|c| c.1)),
+        }
     }
 
     /// Search well `w` and record it as a hit if it has samples in the radius.
@@ -499,94 +549,68 @@ impl WellIndex {
         hits: &mut Vec<Hit>,
         cand: &mut Vec<(f64, u32)>,
     ) {
-        let start = cand.len();
-        let near2 = self.search_well(w as usize, q, r2, k, cand);
-        let end = cand.len();
-        if end > start {
-            hits.push(Hit {
-                near2,
-                well: w,
-                start: start as u32,
-                end: end as u32,
-            });
+        if let Some(h) = self.search_well(w, q, r2, k, cand) {
+            hits.push(h);
         }
     }
 
-    /// Append up to `k` nearest samples of well `w` within `r2` (squared) as
-    /// `(squared distance, sample index)`, in ascending sample index; return the
-    /// smallest squared distance (infinite when none).
+    /// The up to `k` nearest samples of well `w` within `r2` (squared): a
+    /// window of abscissae (line wells) or candidates appended to `cand` in
+    /// ascending sample index (kd-tree wells). `None` when there are none.
     fn search_well(
         &self,
-        w: usize,
+        w: u32,
         q: [f64; 3],
         r2: f64,
         k: usize,
         cand: &mut Vec<(f64, u32)>,
-    ) -> f64 {
-        let Some(shape) = self.wells.get(w) else {
-            return f64::INFINITY;
-        };
-        match shape {
+    ) -> Option<Hit> {
+        match self.wells.get(w as usize)? {
             Shape::Line {
                 p0,
                 u,
                 t,
-                item,
-                order,
                 inv_dt,
+                tpad,
+                ..
             } => {
                 let e = sub(q, *p0);
                 let ts = dot3(e, *u);
-                let perp2 = (dot3(e, e) - ts * ts).max(0.0);
+                let perp2 = pos_part(dot3(e, e) - ts * ts);
                 let len = t.len();
+                // tp = [-inf, t.., +inf]: an exhausted side has distance +inf.
+                let tp = tpad;
                 let mut hi = partition_at(t, ts, t[0], *inv_dt);
                 let mut lo = hi;
                 let mut near2 = f64::INFINITY;
-                let mut taken = 0;
                 // Two-sided walk: the picked samples are the window lo..hi.
-                while taken < k {
-                    let dl = if lo > 0 {
-                        ts - t[lo - 1]
-                    } else {
-                        f64::INFINITY
-                    };
-                    let dh = if hi < len { t[hi] - ts } else { f64::INFINITY };
-                    if dl == f64::INFINITY && dh == f64::INFINITY {
-                        break;
-                    }
+                // Branch-free choice of side (the choice is unpredictable).
+                for _ in 0..k.min(len) {
+                    let dl = ts - tp[lo];
+                    let dh = tp[hi + 1] - ts;
                     let take_lo = dl <= dh + TIE_EPS;
                     let d = if take_lo { dl } else { dh };
                     let d2 = perp2 + d * d;
                     if d2 > r2 {
                         break;
                     }
-                    near2 = near2.min(d2);
-                    if take_lo {
-                        lo -= 1;
-                    } else {
-                        hi += 1;
+                    if d2 < near2 {
+                        near2 = d2;
                     }
-                    taken += 1;
+                    lo -= usize::from(take_lo);
+                    hi += usize::from(!take_lo);
                 }
-                let at = |i: usize| {
-                    let d = t[i] - ts;
-                    (perp2 + d * d, item[i])
-                };
-                let start = cand.len();
-                match order {
-                    1 => cand.extend((lo..hi).map(at)),
-                    -1 => cand.extend((lo..hi).rev().map(at)),
-                    _ => {
-                        cand.extend((lo..hi).map(at));
-                        cand[start..].sort_unstable_by_key(|c| c.1);
-                    }
-                }
-                near2
+                (hi > lo).then_some(Hit {
+                    near2,
+                    well: w,
+                    a: lo as u32,
+                    b: hi as u32,
+                    perp2,
+                    ts,
+                })
             }
             Shape::Cloud { tree, item, .. } => {
-                let Some(kk) = NonZero::new(k.min(item.len())) else {
-                    return f64::INFINITY;
-                };
+                let kk = NonZero::new(k.min(item.len()))?;
                 let found = tree.nearest_n_within::<SquaredEuclidean>(&q, r2, kk, false);
                 let start = cand.len();
                 let mut near2 = f64::INFINITY;
@@ -597,7 +621,14 @@ impl WellIndex {
                     }
                 }
                 cand[start..].sort_unstable_by_key(|c| c.1);
-                near2
+                (cand.len() > start).then_some(Hit {
+                    near2,
+                    well: w,
+                    a: start as u32,
+                    b: cand.len() as u32,
+                    perp2: 0.0,
+                    ts: 0.0,
+                })
             }
         }
     }
