@@ -108,12 +108,12 @@ fn model_of(m: &Value) -> Box<dyn CovarianceModel> {
     }
 }
 
-/// (estimate, variance) per target.
-type Estimates = Vec<(f64, f64)>;
-
 /// Our estimates and variances for one case: through the one-target functions
 /// and through the engine (each point its own well, neighbourhood = all points).
-fn ours(case: &Value) -> (Estimates, Estimates) {
+/// Per target: (estimate, variance).
+type Results = Vec<(f64, f64)>;
+
+fn ours(case: &Value) -> (Results, Results) {
     let model = model_of(&case["model"]);
     let pts = arr3(&case["points"]);
     let z = arr(&case["values"]);

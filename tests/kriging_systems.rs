@@ -311,3 +311,69 @@ fn duplicate_points_give_a_clear_error() {
     .unwrap_or_default();
     assert!(err.contains("well 1 layer 4 has no drift value"), "{err}");
 }
+
+/// A "covariance" that is not positive definite on the points: Cholesky fails
+/// and the bordered system is solved by LU instead. The result must still
+/// satisfy the ordinary-kriging equations `C w + mu = c0`, `sum w = 1`
+/// (Isaaks and Srivastava 1989, eq. 12.12), and the fallback is counted.
+#[test]
+fn indefinite_model_falls_back_to_lu() {
+    struct Bad;
+    impl CovarianceModel for Bad {
+        fn covariance(&self, d: [f64; 3]) -> f64 {
+            let h = (d[0] * d[0] + d[1] * d[1] + d[2] * d[2]).sqrt();
+            if h == 0.0 {
+                1.0
+            } else {
+                0.5 - h
+            }
+        }
+        fn sill(&self) -> f64 {
+            1.0
+        }
+        fn to_isotropic(&self, p: [f64; 3]) -> [f64; 3] {
+            p
+        }
+    }
+    let pts = [
+        [0.0, 0.0, 0.0],
+        [1.0, 0.0, 0.0],
+        [0.0, 1.0, 0.0],
+        [1.0, 1.0, 0.0],
+    ];
+    let x0 = [0.3, 0.4, 0.0];
+    let n = pts.len();
+    let c = |a: [f64; 3], b: [f64; 3]| Bad.covariance([a[0] - b[0], a[1] - b[1], a[2] - b[2]]);
+    let cm = nalgebra::DMatrix::from_fn(n, n, |i, j| if i == j { 1.0 } else { c(pts[i], pts[j]) });
+    assert!(
+        nalgebra::Cholesky::new(cm.clone()).is_none(),
+        "precondition: not positive definite"
+    );
+    let k = ordinary_kriging_weights(&Bad, &pts, x0).unwrap();
+    let mu = k.lagrange[0];
+    for i in 0..n {
+        let lhs: f64 = (0..n).map(|j| cm[(i, j)] * k.weights[j]).sum::<f64>() + mu;
+        assert!(close(lhs, c(pts[i], x0), 1e-12));
+    }
+    assert!(close(k.weights.iter().sum::<f64>(), 1.0, 1e-12));
+    let samples: Vec<Sample> = pts
+        .iter()
+        .enumerate()
+        .map(|(i, p)| Sample::new(i as u32, 0, *p, i as f64))
+        .collect();
+    let data = SampleSet::new(samples).unwrap();
+    let kr = Kriger::new(
+        &data,
+        &Bad,
+        NeighbourhoodParams::per_well(1, 4, 4, f64::INFINITY),
+        KrigingKind::Ordinary,
+    )
+    .unwrap();
+    let col = kr.krige_column(&[Target::at(x0)]).unwrap();
+    assert_eq!(col.stats.lu_fallbacks, 1);
+    assert!(close(
+        col.estimates[0].value,
+        k.combine(&[0.0, 1.0, 2.0, 3.0]),
+        1e-12
+    ));
+}

@@ -3,9 +3,10 @@
 //! Well data are dense along the wells and sparse between them: a plain
 //! "nearest n samples" search around a target usually takes all of its samples
 //! from the one or two nearest wells, and the kriging then cannot see the
-//! lateral variation. [`WellIndex`] applies a per-well limit instead
-//! (common practice in reservoir geostatistics, e.g. the octant/"max per drillhole"
-//! rule, Deutsch and Journel 1998, *GSLIB*, 2nd ed., sec. IV.1 `ndmax`/`noct`):
+//! lateral variation. [`WellIndex`] applies a per-well limit instead, the
+//! "maximum samples per drillhole" restriction of resource estimation (common
+//! practice; related to the octant search of GSLIB `kt3d`, Deutsch and Journel
+//! 1998, *GSLIB*, 2nd ed., which limits samples per octant):
 //!
 //! * the search is done in anisotropy-scaled space
 //!   ([`CovarianceModel::to_isotropic`]), where distance measures how far apart
@@ -115,6 +116,12 @@ enum Shape {
         t: Vec<f64>,
         /// Global sample index for each abscissa.
         item: Vec<u32>,
+        /// Order of `item`: 1 ascending, -1 descending, 0 neither.
+        order: i8,
+        /// `(n - 1) / (t_last - t_first)`: inverse mean spacing, for a first guess.
+        inv_dt: f64,
+        /// `t` padded with `-inf` before and `+inf` after.
+        tpad: Vec<f64>,
     },
     /// General trajectory: a kd-tree of the scaled positions.
     Cloud {
@@ -126,14 +133,60 @@ enum Shape {
     },
 }
 
+/// What the lower bound of a well's distance needs (kept contiguous).
+#[derive(Debug, Clone, Copy)]
+enum Bound {
+    /// Segment `p0 + t u`, `t0 <= t <= t1`.
+    Line {
+        p0: [f64; 3],
+        u: [f64; 3],
+        t0: f64,
+        t1: f64,
+    },
+    /// Bounding box.
+    Box { lo: [f64; 3], hi: [f64; 3] },
+}
+
+impl Bound {
+    #[inline]
+    fn lower2(&self, q: [f64; 3]) -> f64 {
+        match *self {
+            Bound::Line { p0, u, t0, t1 } => {
+                let e = sub(q, p0);
+                let ts = dot3(e, u);
+                let perp2 = pos_part(dot3(e, e) - ts * ts);
+                let out_of = pos_part(if ts < t0 { t0 - ts } else { ts - t1 });
+                perp2 + out_of * out_of
+            }
+            Bound::Box { lo, hi } => {
+                let mut s = 0.0;
+                for k in 0..3 {
+                    let d = pos_part(if q[k] < lo[k] {
+                        lo[k] - q[k]
+                    } else {
+                        q[k] - hi[k]
+                    });
+                    s += d * d;
+                }
+                s
+            }
+        }
+    }
+}
+
 /// One candidate well of a search.
 #[derive(Debug, Clone, Copy)]
 struct Hit {
     /// Squared scaled distance to the well's nearest sample in the radius.
     near2: f64,
     well: u32,
-    start: u32,
-    end: u32,
+    /// Line well: the window `a..b` of abscissa indices. Cloud well: the range
+    /// `a..b` of its candidates in the scratch candidate list.
+    a: u32,
+    b: u32,
+    /// Squared perpendicular distance and abscissa of the query (line wells).
+    perp2: f64,
+    ts: f64,
 }
 
 /// Reusable buffers of [`WellIndex::search`] (one per thread).
@@ -141,7 +194,6 @@ struct Hit {
 pub struct SearchScratch {
     order: Vec<(f64, u32)>,
     hits: Vec<Hit>,
-    best: Vec<f64>,
     cand: Vec<(f64, u32)>,
     pick: Vec<(f64, u32)>,
 }
@@ -152,6 +204,8 @@ pub struct WellIndex {
     params: NeighbourhoodParams,
     scaled: Vec<[f64; 3]>,
     wells: Vec<Shape>,
+    /// Compact copy of what the lower bounds need, one per well.
+    bounds: Vec<Bound>,
     line_wells: usize,
 }
 
@@ -183,6 +237,56 @@ fn scaled_positions<M: CovarianceModel + ?Sized>(
     Ok(out)
 }
 
+/// `max(x, 0)` for finite `x` (plain comparison, no NaN handling needed).
+#[inline(always)]
+fn pos_part(x: f64) -> f64 {
+    if x > 0.0 {
+        x
+    } else {
+        0.0
+    }
+}
+
+/// Sort by (value, index) by insertion: linear on nearly sorted input.
+fn insertion_sort(v: &mut [(f64, u32)]) {
+    let less = |a: &(f64, u32), b: &(f64, u32)| a.0 < b.0 || (a.0 == b.0 && a.1 < b.1);
+    for i in 1..v.len() {
+        let x = v[i];
+        if !less(&x, &v[i - 1]) {
+            continue;
+        }
+        let mut j = i;
+        while j > 0 && less(&x, &v[j - 1]) {
+            v[j] = v[j - 1];
+            j -= 1;
+        }
+        v[j] = x;
+    }
+}
+
+/// The first index `i` with `t[i] >= ts` (`t` ascending), starting from the
+/// guess of a uniform spacing (one step either way) and falling back to a
+/// binary search.
+#[inline]
+fn partition_at(t: &[f64], ts: f64, t0: f64, inv_dt: f64) -> usize {
+    let len = t.len();
+    let g = (ts - t0) * inv_dt;
+    if g >= 0.0 && g < len as f64 {
+        let mut i = g as usize; // floor
+        if t[i] < ts {
+            i += 1;
+            if i == len || t[i] >= ts {
+                return i;
+            }
+        } else if i == 0 || t[i - 1] < ts {
+            return i;
+        } else if i == 1 || t[i - 2] < ts {
+            return i - 1;
+        }
+    }
+    t.partition_point(|&ti| ti < ts)
+}
+
 /// Try to describe scaled points as a straight line.
 fn as_line(pts: &[[f64; 3]], items: &[u32]) -> Option<Shape> {
     let first = *pts.first()?;
@@ -209,11 +313,33 @@ fn as_line(pts: &[[f64; 3]], items: &[u32]) -> Option<Shape> {
         pairs.push((t, it));
     }
     pairs.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+    let item: Vec<u32> = pairs.iter().map(|p| p.1).collect();
+    let order = if item.windows(2).all(|w| w[0] < w[1]) {
+        1
+    } else if item.windows(2).all(|w| w[0] > w[1]) {
+        -1
+    } else {
+        0
+    };
+    let t: Vec<f64> = pairs.iter().map(|p| p.0).collect();
+    let span = t.last().copied().unwrap_or(0.0) - t.first().copied().unwrap_or(0.0);
+    let inv_dt = if span > 0.0 {
+        (t.len() - 1) as f64 / span
+    } else {
+        0.0
+    };
+    let mut tpad = Vec::with_capacity(t.len() + 2);
+    tpad.push(f64::NEG_INFINITY);
+    tpad.extend_from_slice(&t);
+    tpad.push(f64::INFINITY);
     Some(Shape::Line {
         p0: first,
         u,
-        t: pairs.iter().map(|p| p.0).collect(),
-        item: pairs.iter().map(|p| p.1).collect(),
+        t,
+        item,
+        order,
+        inv_dt,
+        tpad,
     })
 }
 
@@ -261,10 +387,23 @@ impl WellIndex {
                 }
             }
         }
+        let bounds = wells
+            .iter()
+            .map(|w| match w {
+                Shape::Line { p0, u, t, .. } => Bound::Line {
+                    p0: *p0,
+                    u: *u,
+                    t0: t.first().copied().unwrap_or(0.0),
+                    t1: t.last().copied().unwrap_or(0.0),
+                },
+                Shape::Cloud { lo, hi, .. } => Bound::Box { lo: *lo, hi: *hi },
+            })
+            .collect();
         Ok(WellIndex {
             params,
             scaled,
             wells,
+            bounds,
             line_wells,
         })
     }
@@ -308,137 +447,188 @@ impl WellIndex {
         if !q.iter().all(|c| c.is_finite()) {
             return;
         }
-        // Lower bounds of every well's distance.
-        scratch.order.clear();
-        for (w, shape) in self.wells.iter().enumerate() {
-            let lb2 = match shape {
-                Shape::Line { p0, u, t, .. } => {
-                    let e = sub(q, *p0);
-                    let ts = dot3(e, *u);
-                    let perp2 = (dot3(e, e) - ts * ts).max(0.0);
-                    let (t0, t1) = (t[0], t[t.len() - 1]);
-                    let out_of = (t0 - ts).max(ts - t1).max(0.0);
-                    perp2 + out_of * out_of
-                }
-                Shape::Cloud { lo, hi, .. } => {
-                    let mut s = 0.0;
-                    for k in 0..3 {
-                        let d = (lo[k] - q[k]).max(q[k] - hi[k]).max(0.0);
-                        s += d * d;
-                    }
-                    s
-                }
-            };
-            if lb2 <= r2 {
-                scratch.order.push((lb2, w as u32));
-            }
+        // Lower bounds of every well's distance, sorted by (bound, well). The
+        // order of the previous call is kept and re-sorted by insertion: along a
+        // column it barely changes, so this is nearly linear. (The result is the
+        // same whatever the starting order: (bound, well) is a total order.)
+        if scratch.order.len() != self.wells.len() {
+            scratch.order.clear();
+            scratch
+                .order
+                .extend((0..self.wells.len() as u32).map(|w| (0.0, w)));
         }
-        scratch
-            .order
-            .sort_unstable_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        for entry in scratch.order.iter_mut() {
+            entry.0 = self.bounds[entry.1 as usize].lower2(q);
+        }
+        insertion_sort(&mut scratch.order);
         scratch.hits.clear();
-        scratch.best.clear();
         scratch.cand.clear();
         let m = p.max_wells;
+        // Visit wells by increasing bound; once m wells have samples, only a
+        // well whose bound is below the m-th best distance can still enter.
+        let mut thr = r2;
         for &(lb2, w) in &scratch.order {
-            if scratch.best.len() >= m && lb2 > scratch.best[m - 1] + TIE_EPS {
+            if lb2 > thr || lb2 > r2 {
                 break;
             }
-            let start = scratch.cand.len();
-            self.search_well(w as usize, q, r2, p.max_per_well, &mut scratch.cand);
-            let end = scratch.cand.len();
-            if end > start {
-                let near2 = scratch.cand[start..end]
-                    .iter()
-                    .map(|c| c.0)
-                    .fold(f64::INFINITY, f64::min);
-                scratch.hits.push(Hit {
-                    near2,
-                    well: w,
-                    start: start as u32,
-                    end: end as u32,
-                });
-                let pos = scratch.best.partition_point(|&b| b <= near2);
-                if pos < m {
-                    scratch.best.insert(pos, near2);
-                    scratch.best.truncate(m);
-                }
+            self.visit(
+                w,
+                q,
+                r2,
+                p.max_per_well,
+                &mut scratch.hits,
+                &mut scratch.cand,
+            );
+            if scratch.hits.len() == m && thr == r2 {
+                thr = scratch.hits.iter().map(|h| h.near2).fold(0.0, f64::max) + TIE_EPS;
             }
         }
-        scratch.pick.clear();
         if scratch.hits.len() > m {
             scratch
                 .hits
-                .sort_by(|a, b| a.near2.total_cmp(&b.near2).then(a.well.cmp(&b.well)));
+                .sort_unstable_by(|a, b| a.near2.total_cmp(&b.near2).then(a.well.cmp(&b.well)));
             scratch.hits.truncate(m);
         }
-        for h in &scratch.hits {
-            scratch
-                .pick
-                .extend_from_slice(&scratch.cand[h.start as usize..h.end as usize]);
-        }
+        // Wells occupy ascending, disjoint index ranges and each well's part is
+        // emitted in ascending order: in well order the concatenation is sorted.
+        scratch.hits.sort_unstable_by_key(|h| h.well);
+        let total: usize = scratch.hits.iter().map(|h| (h.b - h.a) as usize).sum();
         let n = p.max_total;
-        if scratch.pick.len() > n {
-            scratch
-                .pick
-                .select_nth_unstable_by(n - 1, |a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
-            scratch.pick.truncate(n);
+        if total <= n {
+            for h in &scratch.hits {
+                self.emit(h, &scratch.cand, out);
+            }
+            return;
         }
+        scratch.pick.clear();
+        for h in &scratch.hits {
+            match self.wells.get(h.well as usize) {
+                Some(Shape::Line { t, item, .. }) => {
+                    scratch.pick.extend((h.a as usize..h.b as usize).map(|i| {
+                        let d = t[i] - h.ts;
+                        (h.perp2 + d * d, item[i])
+                    }));
+                }
+                _ => scratch
+                    .pick
+                    .extend_from_slice(&scratch.cand[h.a as usize..h.b as usize]),
+            }
+        }
+        scratch
+            .pick
+            .select_nth_unstable_by(n - 1, |a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        scratch.pick.truncate(n);
         out.extend(scratch.pick.iter().map(|c| c.1));
         out.sort_unstable();
     }
 
-    /// Append up to `k` nearest samples of well `w` within `r2` (squared) as
-    /// `(squared distance, sample index)`.
-    fn search_well(&self, w: usize, q: [f64; 3], r2: f64, k: usize, cand: &mut Vec<(f64, u32)>) {
-        let Some(shape) = self.wells.get(w) else {
-            return;
-        };
-        match shape {
-            Shape::Line { p0, u, t, item } => {
+    /// Append the samples of one hit to `out` in ascending index order.
+    fn emit(&self, h: &Hit, cand: &[(f64, u32)], out: &mut Vec<u32>) {
+        let (a, b) = (h.a as usize, h.b as usize);
+        match self.wells.get(h.well as usize) {
+            Some(Shape::Line { item, order, .. }) => match order {
+                1 => out.extend_from_slice(&item[a..b]),
+                -1 => out.extend(item[a..b].iter().rev()),
+                _ => {
+                    let start = out.len();
+                    out.extend_from_slice(&item[a..b]);
+                    out[start..].sort_unstable();
+                }
+            },
+            _ => out.extend(cand[a..b].iter().map(|c| c.1)),
+        }
+    }
+
+    /// Search well `w` and record it as a hit if it has samples in the radius.
+    fn visit(
+        &self,
+        w: u32,
+        q: [f64; 3],
+        r2: f64,
+        k: usize,
+        hits: &mut Vec<Hit>,
+        cand: &mut Vec<(f64, u32)>,
+    ) {
+        if let Some(h) = self.search_well(w, q, r2, k, cand) {
+            hits.push(h);
+        }
+    }
+
+    /// The up to `k` nearest samples of well `w` within `r2` (squared): a
+    /// window of abscissae (line wells) or candidates appended to `cand` in
+    /// ascending sample index (kd-tree wells). `None` when there are none.
+    fn search_well(
+        &self,
+        w: u32,
+        q: [f64; 3],
+        r2: f64,
+        k: usize,
+        cand: &mut Vec<(f64, u32)>,
+    ) -> Option<Hit> {
+        match self.wells.get(w as usize)? {
+            Shape::Line {
+                p0,
+                u,
+                t,
+                inv_dt,
+                tpad,
+                ..
+            } => {
                 let e = sub(q, *p0);
                 let ts = dot3(e, *u);
-                let perp2 = (dot3(e, e) - ts * ts).max(0.0);
+                let perp2 = pos_part(dot3(e, e) - ts * ts);
                 let len = t.len();
-                let mut hi = t.partition_point(|&ti| ti < ts);
+                // tp = [-inf, t.., +inf]: an exhausted side has distance +inf.
+                let tp = tpad;
+                let mut hi = partition_at(t, ts, t[0], *inv_dt);
                 let mut lo = hi;
-                let mut taken = 0;
-                while taken < k {
-                    let dl = if lo > 0 {
-                        ts - t[lo - 1]
-                    } else {
-                        f64::INFINITY
-                    };
-                    let dh = if hi < len { t[hi] - ts } else { f64::INFINITY };
-                    if dl == f64::INFINITY && dh == f64::INFINITY {
-                        break;
-                    }
+                let mut near2 = f64::INFINITY;
+                // Two-sided walk: the picked samples are the window lo..hi.
+                // Branch-free choice of side (the choice is unpredictable).
+                for _ in 0..k.min(len) {
+                    let dl = ts - tp[lo];
+                    let dh = tp[hi + 1] - ts;
                     let take_lo = dl <= dh + TIE_EPS;
                     let d = if take_lo { dl } else { dh };
                     let d2 = perp2 + d * d;
                     if d2 > r2 {
                         break;
                     }
-                    if take_lo {
-                        lo -= 1;
-                        cand.push((d2, item[lo]));
-                    } else {
-                        cand.push((d2, item[hi]));
-                        hi += 1;
+                    if d2 < near2 {
+                        near2 = d2;
                     }
-                    taken += 1;
+                    lo -= usize::from(take_lo);
+                    hi += usize::from(!take_lo);
                 }
+                (hi > lo).then_some(Hit {
+                    near2,
+                    well: w,
+                    a: lo as u32,
+                    b: hi as u32,
+                    perp2,
+                    ts,
+                })
             }
             Shape::Cloud { tree, item, .. } => {
-                let Some(kk) = NonZero::new(k.min(item.len())) else {
-                    return;
-                };
-                let found = tree.nearest_n_within::<SquaredEuclidean>(&q, r2, kk, true);
+                let kk = NonZero::new(k.min(item.len()))?;
+                let found = tree.nearest_n_within::<SquaredEuclidean>(&q, r2, kk, false);
+                let start = cand.len();
+                let mut near2 = f64::INFINITY;
                 for nb in found {
                     if let Some(&it) = item.get(nb.item as usize) {
+                        near2 = near2.min(nb.distance);
                         cand.push((nb.distance, it));
                     }
                 }
+                cand[start..].sort_unstable_by_key(|c| c.1);
+                (cand.len() > start).then_some(Hit {
+                    near2,
+                    well: w,
+                    a: start as u32,
+                    b: cand.len() as u32,
+                    perp2: 0.0,
+                    ts: 0.0,
+                })
             }
         }
     }

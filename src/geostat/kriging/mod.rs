@@ -171,6 +171,19 @@ struct Workspace {
     anchor: Anchor,
 }
 
+/// What kriging needs of one sample, packed together.
+#[derive(Debug, Clone, Copy)]
+struct Meta {
+    pos: [f64; 3],
+    /// `z - m` (SK with a mean), `z - m(x)` (SK with a trend), `z` otherwise.
+    resid: f64,
+    /// Drift value (0 when not used).
+    drift: f64,
+    /// Dense well index.
+    well: u32,
+    layer: i32,
+}
+
 /// Kriging of targets from a set of blocked well samples.
 ///
 /// Holds the samples (structure of arrays), the per-well search index in the
@@ -179,12 +192,8 @@ pub struct Kriger<'m, M: CovarianceModel + ?Sized> {
     model: &'m M,
     kind: KrigingKind,
     index: WellIndex,
-    pos: Vec<[f64; 3]>,
-    /// `z - m` (SK with a mean), `z - m(x)` (SK with a trend), `z` otherwise.
-    resid: Vec<f64>,
-    drift: Vec<f64>,
-    well: Vec<u32>,
-    layer: Vec<i32>,
+    /// Per sample, in [`SampleSet`] order.
+    meta: Vec<Meta>,
     well_id: Vec<u32>,
     sill: f64,
 }
@@ -254,15 +263,23 @@ impl<'m, M: CovarianceModel + ?Sized> Kriger<'m, M> {
             }
         }
         let index = WellIndex::new(data, model, neighbourhood)?;
+        let meta = data
+            .samples()
+            .iter()
+            .enumerate()
+            .map(|(i, s)| Meta {
+                pos: s.pos,
+                resid: resid[i],
+                drift: drift[i],
+                well: well[i],
+                layer: s.layer,
+            })
+            .collect();
         Ok(Kriger {
             model,
             kind,
             index,
-            pos: data.samples().iter().map(|s| s.pos).collect(),
-            resid,
-            drift,
-            well,
-            layer: data.samples().iter().map(|s| s.layer).collect(),
+            meta,
             well_id,
             sill,
         })
@@ -365,14 +382,14 @@ impl<'m, M: CovarianceModel + ?Sized> Kriger<'m, M> {
         let (Some(&n0), Some(&p0)) = (nb.first(), prev.first()) else {
             return false;
         };
-        let delta = self.layer[n0 as usize] as i64 - self.layer[p0 as usize] as i64;
+        let meta = &self.meta;
+        let delta = meta[n0 as usize].layer as i64 - meta[p0 as usize].layer as i64;
         for ((&i, &j), d) in nb.iter().zip(prev).zip(&a.disp) {
-            let (i, j) = (i as usize, j as usize);
-            if self.well[i] != self.well[j] || self.layer[i] as i64 - self.layer[j] as i64 != delta
-            {
+            let (mi, mj) = (&meta[i as usize], &meta[j as usize]);
+            if mi.well != mj.well || mi.layer as i64 - mj.layer as i64 != delta {
                 return false;
             }
-            let p = self.pos[i];
+            let p = mi.pos;
             if (p[0] - x0[0] - d[0]).abs() > REUSE_DISPLACEMENT_TOL
                 || (p[1] - x0[1] - d[1]).abs() > REUSE_DISPLACEMENT_TOL
                 || (p[2] - x0[2] - d[2]).abs() > REUSE_DISPLACEMENT_TOL
@@ -383,11 +400,13 @@ impl<'m, M: CovarianceModel + ?Sized> Kriger<'m, M> {
         if self.kind == KrigingKind::ExternalDrift {
             let mut gmax = 0.0f64;
             for (&i, ga) in nb.iter().zip(&a.g) {
-                gmax = gmax.max((self.drift[i as usize] - f0).abs()).max(ga.abs());
+                gmax = gmax
+                    .max((self.meta[i as usize].drift - f0).abs())
+                    .max(ga.abs());
             }
             let tol = REUSE_DRIFT_TOL * gmax;
             for (&i, ga) in nb.iter().zip(&a.g) {
-                if ((self.drift[i as usize] - f0) - ga).abs() > tol {
+                if ((self.meta[i as usize].drift - f0) - ga).abs() > tol {
                     return false;
                 }
             }
@@ -456,10 +475,11 @@ impl<'m, M: CovarianceModel + ?Sized> Kriger<'m, M> {
             stats.reuses += 1;
         } else {
             ws.pts.clear();
-            ws.pts.extend(ws.nb.iter().map(|&i| self.pos[i as usize]));
+            ws.pts
+                .extend(ws.nb.iter().map(|&i| self.meta[i as usize].pos));
             ws.g.clear();
             if self.kind == KrigingKind::ExternalDrift {
-                ws.g.extend(ws.nb.iter().map(|&i| self.drift[i as usize] - f0));
+                ws.g.extend(ws.nb.iter().map(|&i| self.meta[i as usize].drift - f0));
             }
             let constraints = match self.kind {
                 KrigingKind::SimpleMean(_) | KrigingKind::SimpleTrend => Constraints::None,
@@ -494,10 +514,7 @@ impl<'m, M: CovarianceModel + ?Sized> Kriger<'m, M> {
         if a.note == Note::DriftFallback {
             stats.drift_fallbacks += 1;
         }
-        let mut value = base;
-        for (w, &i) in a.w.iter().zip(&ws.nb) {
-            value += w * self.resid[i as usize];
-        }
+        let value = base + self.weighted_sum(&a.w, &ws.nb);
         let est = Estimate {
             value,
             variance: a.variance,
@@ -509,16 +526,36 @@ impl<'m, M: CovarianceModel + ?Sized> Kriger<'m, M> {
         Ok(est)
     }
 
+    /// `sum_i w_i r_i` over the neighbours, with four partial sums (the same
+    /// order whether the weights are fresh or reused).
+    #[inline]
+    fn weighted_sum(&self, w: &[f64], nb: &[u32]) -> f64 {
+        let meta = &self.meta;
+        let mut acc = [0.0f64; 4];
+        let mut wc = w.chunks_exact(4);
+        let mut nc = nb.chunks_exact(4);
+        for (w4, n4) in (&mut wc).zip(&mut nc) {
+            for k in 0..4 {
+                acc[k] += w4[k] * meta[n4[k] as usize].resid;
+            }
+        }
+        let mut tail = 0.0;
+        for (wi, &i) in wc.remainder().iter().zip(nc.remainder()) {
+            tail += wi * meta[i as usize].resid;
+        }
+        (acc[0] + acc[1]) + (acc[2] + acc[3]) + tail
+    }
+
     fn singular(&self, e: Singular, k: usize, t: &Target, nb: &[u32]) -> Error {
         let name = |i: usize| -> String {
             match nb.get(i) {
                 Some(&s) => format!(
                     "well {} layer {}",
                     self.well_id
-                        .get(self.well[s as usize] as usize)
+                        .get(self.meta[s as usize].well as usize)
                         .copied()
                         .unwrap_or(0),
-                    self.layer[s as usize]
+                    self.meta[s as usize].layer
                 ),
                 None => format!("neighbour {i}"),
             }
