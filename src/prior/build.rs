@@ -1030,7 +1030,7 @@ fn facies_at(
         return Ok((vec![1.0 / nk as f64; nk], 1.0));
     };
     let c = &grid.columns[j];
-    if col.is_empty() || c.len() == 0 {
+    if col.is_empty() || c.is_empty() {
         return est.estimate(&Target::at([xy.0, xy.1, s]));
     }
     let first = col[0].0 as f64;
