@@ -17,8 +17,7 @@
 #![allow(clippy::needless_range_loop)] // index loops over facies read best here
 
 use serde_json::Value;
-use std::path::{Path, PathBuf};
-use std::process::Command;
+use std::path::PathBuf;
 use stratiprior::geostat::indicator::{
     FaciesSample, IndicatorFitOptions, IndicatorMethod, IndicatorOptions, IndicatorSetup,
     IndicatorVariogram,
@@ -27,55 +26,20 @@ use stratiprior::geostat::kriging::Target;
 use stratiprior::geostat::neighbourhood::NeighbourhoodParams;
 use stratiprior::geostat::variogram::{Structure, StructureKind, VariogramModel};
 
+mod pyref;
+use pyref::{arr, load};
+
 fn golden_path() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/golden/indicator/reference.json")
+    pyref::repo("tests/golden/indicator/reference.json")
 }
 
-fn load(path: &Path) -> Value {
-    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-    serde_json::from_str(&text).unwrap_or_else(|e| panic!("{}: {e}", path.display()))
-}
-
-/// The live reference, if an interpreter is configured and has gstools.
+/// The live reference (see `tests/pyref`).
 fn live() -> Option<Value> {
-    let require = std::env::var("STRATIPRIOR_REQUIRE_PYTHON").is_ok_and(|v| v == "1");
-    let Ok(py) = std::env::var("STRATIPRIOR_PYTHON") else {
-        assert!(
-            !require,
-            "STRATIPRIOR_REQUIRE_PYTHON=1 but STRATIPRIOR_PYTHON is not set"
-        );
-        return None;
-    };
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("reference.json");
-    let script =
-        Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/reference/indicator_reference.py");
-    match Command::new(&py).arg(&script).arg(&out).output() {
-        Ok(o) if o.status.success() => Some(load(&out)),
-        Ok(o) => {
-            let msg = format!(
-                "{py} {}: failed (gstools installed?): {}",
-                script.display(),
-                String::from_utf8_lossy(&o.stderr)
-            );
-            assert!(!require, "{msg}");
-            eprintln!("{msg}; using the golden file");
-            None
-        }
-        Err(e) => {
-            assert!(!require, "cannot run {py}: {e}");
-            eprintln!("cannot run {py}: {e}; using the golden file");
-            None
-        }
-    }
-}
-
-fn arr(v: &Value) -> Vec<f64> {
-    v.as_array()
-        .unwrap()
-        .iter()
-        .map(|x| x.as_f64().unwrap())
-        .collect()
+    pyref::live(
+        "indicator_reference.py",
+        "gstools and numpy",
+        &golden_path(),
+    )
 }
 
 fn rows(v: &Value) -> Vec<Vec<f64>> {

@@ -19,8 +19,7 @@ mod kriging_support;
 
 use kriging_support::{AnisoExp, IsoExp};
 use serde_json::Value;
-use std::path::{Path, PathBuf};
-use std::process::Command;
+use std::path::PathBuf;
 use stratiprior::geostat::kriging::{
     external_drift_kriging_weights, ordinary_kriging_weights, simple_kriging_weights, Kriger,
     KrigingKind, Sample, SampleSet, Target,
@@ -28,55 +27,20 @@ use stratiprior::geostat::kriging::{
 use stratiprior::geostat::neighbourhood::NeighbourhoodParams;
 use stratiprior::geostat::CovarianceModel;
 
+mod pyref;
+use pyref::{arr, load};
+
 fn golden_path() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/golden/kriging/reference.json")
+    pyref::repo("tests/golden/kriging/reference.json")
 }
 
-fn load(path: &Path) -> Value {
-    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-    serde_json::from_str(&text).unwrap_or_else(|e| panic!("{}: {e}", path.display()))
-}
-
-/// The live reference, if an interpreter is configured and has the libraries.
+/// The live reference (see `tests/pyref`).
 fn live() -> Option<Value> {
-    let require = std::env::var("STRATIPRIOR_REQUIRE_PYTHON").is_ok_and(|v| v == "1");
-    let Ok(py) = std::env::var("STRATIPRIOR_PYTHON") else {
-        assert!(
-            !require,
-            "STRATIPRIOR_REQUIRE_PYTHON=1 but STRATIPRIOR_PYTHON is not set"
-        );
-        return None;
-    };
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("reference.json");
-    let script = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/reference/kriging_reference.py");
-    let run = Command::new(&py).arg(&script).arg(&out).output();
-    match run {
-        Ok(o) if o.status.success() => Some(load(&out)),
-        Ok(o) => {
-            let msg = format!(
-                "{py} {}: failed (pykrige and gstools installed?): {}",
-                script.display(),
-                String::from_utf8_lossy(&o.stderr)
-            );
-            assert!(!require, "{msg}");
-            eprintln!("{msg}; using the golden file");
-            None
-        }
-        Err(e) => {
-            assert!(!require, "cannot run {py}: {e}");
-            eprintln!("cannot run {py}: {e}; using the golden file");
-            None
-        }
-    }
-}
-
-fn arr(v: &Value) -> Vec<f64> {
-    v.as_array()
-        .unwrap()
-        .iter()
-        .map(|x| x.as_f64().unwrap())
-        .collect()
+    pyref::live(
+        "kriging_reference.py",
+        "pykrige and gstools",
+        &golden_path(),
+    )
 }
 
 fn arr3(v: &Value) -> Vec<[f64; 3]> {

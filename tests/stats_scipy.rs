@@ -17,67 +17,22 @@
 //! interpreter or library is a failure.
 
 use serde_json::Value;
-use std::path::{Path, PathBuf};
-use std::process::Command;
+use std::path::PathBuf;
 use stratiprior::validation::scores::{
     coverage, crps_ensemble, crps_ensemble_fair, crps_normal, wasserstein_1d, weighted_mean,
     weighted_quantiles, weighted_variance, QuantileMethod, VarianceKind,
 };
 
+mod pyref;
+use pyref::{arr, load};
+
 fn golden_path() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/golden/stats/scipy_scores.json")
+    pyref::repo("tests/golden/stats/scipy_scores.json")
 }
 
-fn load(path: &Path) -> Value {
-    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
-    serde_json::from_str(&text).unwrap_or_else(|e| panic!("{}: {e}", path.display()))
-}
-
-/// The live reference: `None` when no interpreter is configured (allowed only
-/// without `STRATIPRIOR_REQUIRE_PYTHON=1`).
+/// The live reference (see `tests/pyref`).
 fn live() -> Option<Value> {
-    let require = std::env::var("STRATIPRIOR_REQUIRE_PYTHON").is_ok_and(|v| v == "1");
-    let Ok(py) = std::env::var("STRATIPRIOR_PYTHON") else {
-        assert!(
-            !require,
-            "STRATIPRIOR_REQUIRE_PYTHON=1 but STRATIPRIOR_PYTHON is not set"
-        );
-        return None;
-    };
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("scipy_scores.json");
-    let script = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/reference/scipy_scores.py");
-    match Command::new(&py).arg(&script).arg(&out).output() {
-        Ok(o) if o.status.success() => {
-            if std::env::var("STRATIPRIOR_REGEN_GOLDEN").is_ok_and(|v| v == "1") {
-                std::fs::copy(&out, golden_path()).unwrap();
-            }
-            Some(load(&out))
-        }
-        Ok(o) => {
-            let msg = format!(
-                "{py} {}: failed (scipy and numpy installed?): {}",
-                script.display(),
-                String::from_utf8_lossy(&o.stderr)
-            );
-            assert!(!require, "{msg}");
-            eprintln!("{msg}; using the golden file");
-            None
-        }
-        Err(e) => {
-            assert!(!require, "cannot run {py}: {e}");
-            eprintln!("cannot run {py}: {e}; using the golden file");
-            None
-        }
-    }
-}
-
-fn arr(v: &Value) -> Vec<f64> {
-    v.as_array()
-        .unwrap()
-        .iter()
-        .map(|x| x.as_f64().unwrap())
-        .collect()
+    pyref::live("scipy_scores.py", "scipy and numpy", &golden_path())
 }
 
 fn opt_arr(v: &Value) -> Option<Vec<f64>> {
