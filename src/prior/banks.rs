@@ -482,3 +482,61 @@ pub fn write_region(
         mass,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn sample(well: usize, facies: usize, v: f64, loo: f64) -> JointSample {
+        JointSample {
+            well,
+            facies: Some(facies),
+            xy: [well as f64 * 100.0, 0.0],
+            values: [v, v / 1000.0, v / 2000.0],
+            loo: [loo, loo / 1000.0, loo / 2000.0],
+        }
+    }
+
+    #[test]
+    fn offsets_are_declustered_facies_minus_zone_means_and_small_regions_borrow() {
+        // facies 0: 40 samples from 4 wells at 3000 + k; facies 1: 10 samples from 1 well at 2500
+        let mut s = Vec::new();
+        for w in 0..4 {
+            for k in 0..10 {
+                s.push(sample(w, 0, 3000.0 + k as f64, 2900.0));
+            }
+        }
+        for _ in 0..10 {
+            s.push(sample(4, 1, 2500.0, 2900.0));
+        }
+        let w = vec![1.0 / s.len() as f64; s.len()];
+        let pools = zone_pools(0, &s, &w, 3);
+        assert_eq!(pools.len(), 3);
+        let zone_mean = (40.0 * 3004.5 + 10.0 * 2500.0) / 50.0;
+        assert!((pools[0].offset[0] - (3004.5 - zone_mean)).abs() < 1e-9);
+        assert!((pools[1].offset[0] - (2500.0 - zone_mean)).abs() < 1e-9);
+        assert_eq!(pools[2].offset, [0.0; 3]);
+        // facies 0 has its own pool: residual v - (loo + d_0), weights renormalised
+        assert!(!pools[0].borrowed);
+        assert_eq!(pools[0].rows.len(), 40);
+        let sw: f64 = pools[0].rows.iter().map(|r| r.1).sum();
+        assert!((sw - 1.0).abs() < 1e-12);
+        let r0 = pools[0].rows[0].0[0];
+        assert!((r0 - (3000.0 - (2900.0 + pools[0].offset[0]))).abs() < 1e-9);
+        // facies 1 (1 well, 10 samples) and 2 (none) borrow the zone pool
+        for p in &pools[1..] {
+            assert!(p.borrowed);
+            assert_eq!(p.rows.len(), 50);
+            assert_eq!(p.wells, 5);
+        }
+        assert_eq!(pools[1].own_wells, 1);
+        assert_eq!(pools[1].own_samples, 10);
+    }
+
+    #[test]
+    fn region_streams_differ_and_repeat() {
+        let a: Vec<u64> = (0..4).map(|_| region_rng(5, 0).gen::<u64>()).collect();
+        assert!(a.iter().all(|x| *x == a[0]));
+        assert_ne!(region_rng(5, 0).gen::<u64>(), region_rng(5, 1).gen::<u64>());
+    }
+}
