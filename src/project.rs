@@ -35,6 +35,7 @@ struct RawProject {
     conditioning: Option<RawConditioning>,
     kriging: Option<RawKriging>,
     bounds: Option<RawBounds>,
+    banks: Option<RawBanks>,
     #[serde(default)]
     variograms: BTreeMap<String, BTreeMap<String, toml::Value>>,
 }
@@ -149,6 +150,12 @@ struct RawHorizon {
     tops_name: Option<String>,
     #[serde(default)]
     z_is_elevation: bool,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawBanks {
+    count: Option<i64>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -616,11 +623,19 @@ pub struct Project {
     pub kriging: KrigingSettings,
     /// Clipping bounds of epsilon and delta.
     pub bounds: Bounds,
+    /// Samples per region bank (`[banks] count`).
+    pub bank_count: usize,
     /// Variogram settings per zone name and property, as written (checked by the
     /// geostatistics module, which knows the model syntax).
     #[serde(skip)]
     pub variograms: BTreeMap<String, BTreeMap<String, toml::Value>>,
 }
+
+/// Default number of samples per region bank when `[banks] count` is absent.
+pub const DEFAULT_BANK_COUNT: usize = 20000;
+
+/// Largest accepted `[banks] count` (a bank of 7 float32 columns is then 280 MB).
+pub const MAX_BANK_COUNT: usize = 10_000_000;
 
 /// Default tie radius when `[tie]` is absent, m.
 pub const DEFAULT_TIE_RADIUS: f64 = 2000.0;
@@ -898,6 +913,17 @@ impl Project {
             }
             Some(t) => t.radius,
             None => DEFAULT_TIE_RADIUS,
+        };
+
+        // sample banks
+        let bank_count = match raw.banks.as_ref().and_then(|b| b.count) {
+            Some(c) if c < 1 || c as u64 > MAX_BANK_COUNT as u64 => {
+                return Err(perr(format!(
+                    "banks.count: expected a whole number of samples per region from 1 to {MAX_BANK_COUNT}, got {c}"
+                )))
+            }
+            Some(c) => c as usize,
+            None => DEFAULT_BANK_COUNT,
         };
 
         // volumes
@@ -1214,6 +1240,7 @@ impl Project {
             conditioning,
             kriging,
             bounds,
+            bank_count,
             variograms: raw.variograms,
         })
     }

@@ -5,7 +5,9 @@ use std::fs;
 use std::path::{Path, PathBuf};
 use std::process::Command;
 use stratiprior::formats::segy::read_volume_on_grid;
+use stratiprior::grid::SurveyGrid;
 use stratiprior::project::Project;
+use stratiprior::validation::scores::wasserstein_1d;
 
 fn root() -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
@@ -48,6 +50,194 @@ fn read_npy_f32(path: &Path) -> Vec<f32> {
         .collect()
 }
 
+/// The shape in a .npy v1.0 header (NumPy format spec, NEP 1: magic, version
+/// 1.0, u16 LE header length, dict with 'descr', 'fortran_order', 'shape';
+/// magic + header a multiple of 64 bytes, ended by '\n').
+fn npy_shape_v1(path: &Path) -> Vec<usize> {
+    let b = fs::read(path).unwrap();
+    assert_eq!(&b[..8], b"\x93NUMPY\x01\x00", "{}", path.display());
+    let hlen = u16::from_le_bytes([b[8], b[9]]) as usize;
+    assert_eq!((10 + hlen) % 64, 0);
+    assert_eq!(b[10 + hlen - 1], b'\n');
+    let header = std::str::from_utf8(&b[10..10 + hlen]).unwrap();
+    let inner = &header[header.find("'shape': (").unwrap() + 10..];
+    let inner = &inner[..inner.find(')').unwrap()];
+    let shape: Vec<usize> = inner
+        .split(',')
+        .filter(|t| !t.trim().is_empty())
+        .map(|t| t.trim().parse().unwrap())
+        .collect();
+    assert_eq!(b.len(), 10 + hlen + 4 * shape.iter().product::<usize>());
+    shape
+}
+
+fn weighted_corr(a: &[f64], b: &[f64], w: &[f64]) -> f64 {
+    let sw: f64 = w.iter().sum();
+    let ma = a.iter().zip(w).map(|(x, w)| x * w).sum::<f64>() / sw;
+    let mb = b.iter().zip(w).map(|(x, w)| x * w).sum::<f64>() / sw;
+    let (mut sab, mut saa, mut sbb) = (0.0, 0.0, 0.0);
+    for ((x, y), w) in a.iter().zip(b).zip(w) {
+        sab += w * (x - ma) * (y - mb);
+        saa += w * (x - ma).powi(2);
+        sbb += w * (y - mb).powi(2);
+    }
+    sab / (saa * sbb).sqrt()
+}
+
+/// `n` draws of pool row indices by weight (inverse transform on the cumulative weights).
+fn draw_by_weight(w: &[f64], n: usize, rng: &mut impl rand::Rng) -> Vec<usize> {
+    let mut cum = Vec::with_capacity(w.len());
+    let mut c = 0.0;
+    for x in w {
+        c += x;
+        cum.push(c);
+    }
+    (0..n)
+        .map(|_| {
+            let u = rng.gen::<f64>() * c;
+            cum.partition_point(|&x| x <= u).min(w.len() - 1)
+        })
+        .collect()
+}
+
+/// The sample banks: identical for 1 and 2 threads, numpy-readable, and each
+/// region's bank residuals reproduce the declustered (weighted) well pool.
+fn check_banks(m: &serde_json::Value, o1: &Path, o2: &Path, data: &Data, g: &SurveyGrid) {
+    use rand::SeedableRng;
+    let banks = m["banks"].as_array().unwrap();
+    let project = Project::load(&root().join("demo.toml")).unwrap();
+    assert_eq!(banks.len(), project.zones.len() * project.facies.len());
+    let nz = g.z_count;
+    let mut python_lines = Vec::new();
+    for (r, b) in banks.iter().enumerate() {
+        let (bp, pp) = (
+            b["path"].as_str().unwrap(),
+            b["pool_path"].as_str().unwrap(),
+        );
+        for rel in [bp, pp] {
+            let a = fs::read(o1.join(rel)).unwrap();
+            assert!(
+                a == fs::read(o2.join(rel)).unwrap(),
+                "{rel} differs between 1 and 2 threads"
+            );
+        }
+        let n = b["count"].as_u64().unwrap() as usize;
+        let np = b["pool_count"].as_u64().unwrap() as usize;
+        assert_eq!(n, project.bank_count);
+        assert_eq!(npy_shape_v1(&o1.join(bp)), vec![n, 7]);
+        assert_eq!(npy_shape_v1(&o1.join(pp)), vec![np, 5]);
+        let bank = read_npy_f32(&o1.join(bp));
+        let pool = read_npy_f32(&o1.join(pp));
+        let off: Vec<f64> = (0..3).map(|q| b["offset"][q].as_f64().unwrap()).collect();
+        let zi = b["zone_index"].as_u64().unwrap() as f32;
+        let fname = b["facies"].as_str().unwrap();
+        // bank residual: value minus the trend at its cell (mean volumes + d_f)
+        let mut res: Vec<Vec<f64>> = vec![Vec::new(); 3];
+        for row in bank.chunks_exact(7) {
+            let (fi, fj) = g.xy_to_ij(f64::from(row[3]), f64::from(row[4]));
+            let (i, j) = (fi.round() as usize, fj.round() as usize);
+            let k = ((f64::from(row[5]) - g.z0) / g.dz).round() as usize;
+            let c = g.trace_index(i, j) * nz + k;
+            assert_eq!(data["zone_value"][c], zi, "bank cell outside its zone");
+            assert!(data[&format!("facies_probability:{fname}_value")][c] > 0.0);
+            assert!(row[6].is_finite() && row[6] >= 0.0);
+            for (q, key) in ["vp0_mean", "epsilon_mean", "delta_mean"]
+                .iter()
+                .enumerate()
+            {
+                res[q].push(f64::from(row[q]) - (f64::from(data[*key][c]) + off[q]));
+            }
+        }
+        let pw: Vec<f64> = pool.chunks_exact(5).map(|p| f64::from(p[3])).collect();
+        let pv: Vec<Vec<f64>> = (0..3)
+            .map(|q| pool.chunks_exact(5).map(|p| f64::from(p[q])).collect())
+            .collect();
+        // reference: W1 between two independent banks of the same size drawn
+        // from the same pool (residuals are i.i.d. draws by weight)
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(7 + r as u64);
+        let d1 = draw_by_weight(&pw, n, &mut rng);
+        let d2 = draw_by_weight(&pw, n, &mut rng);
+        let mut ratios = Vec::new();
+        for q in 0..3 {
+            // Wasserstein-1 as scipy.stats.wasserstein_distance (Villani 2009)
+            let w_bank = wasserstein_1d(&res[q], &pv[q], None, Some(&pw)).unwrap();
+            let a: Vec<f64> = d1.iter().map(|&i| pv[q][i]).collect();
+            let bb: Vec<f64> = d2.iter().map(|&i| pv[q][i]).collect();
+            let w_ref = wasserstein_1d(&a, &bb, None, None).unwrap();
+            ratios.push(w_bank / w_ref);
+            assert!(
+                w_bank < 3.0 * w_ref,
+                "bank {bp} column {q}: W1 {w_bank} vs two independent banks {w_ref}"
+            );
+        }
+        let ones = vec![1.0; n];
+        let c_bank = [
+            weighted_corr(&res[0], &res[1], &ones),
+            weighted_corr(&res[1], &res[2], &ones),
+        ];
+        let c_pool = [
+            weighted_corr(&pv[0], &pv[1], &pw),
+            weighted_corr(&pv[1], &pv[2], &pw),
+        ];
+        eprintln!(
+            "bank {bp}: pool {np} ({}), W1 ratios vp0 {:.3} eps {:.3} delta {:.3}; corr vp0-eps {:.3}/{:.3}, eps-delta {:.3}/{:.3}",
+            b["pool"], ratios[0], ratios[1], ratios[2], c_bank[0], c_pool[0], c_bank[1], c_pool[1]
+        );
+        for t in 0..2 {
+            assert!(
+                (c_bank[t] - c_pool[t]).abs() < 0.05,
+                "{bp}: corr {c_bank:?} pool {c_pool:?}"
+            );
+        }
+        let means: Vec<f64> = (0..7)
+            .map(|c| {
+                bank.iter()
+                    .skip(c)
+                    .step_by(7)
+                    .map(|v| f64::from(*v))
+                    .sum::<f64>()
+                    / n as f64
+            })
+            .collect();
+        python_lines.push((o1.join(bp), n, means));
+    }
+    // numpy reads the files: shape, dtype and column means
+    match std::env::var("STRATIPRIOR_PYTHON") {
+        Ok(py) => {
+            for (path, n, means) in &python_lines {
+                let o = Command::new(&py)
+                    .args([
+                        "-c",
+                        "import sys, numpy as np\na = np.load(sys.argv[1])\nprint(a.shape[0], a.shape[1], a.dtype.str, a.flags['C_CONTIGUOUS'], ' '.join(repr(float(v)) for v in a.astype(np.float64).mean(axis=0)))",
+                        path.to_str().unwrap(),
+                    ])
+                    .output()
+                    .unwrap();
+                assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+                let out = String::from_utf8(o.stdout).unwrap();
+                let t: Vec<&str> = out.split_whitespace().collect();
+                assert_eq!(t[0].parse::<usize>().unwrap(), *n);
+                assert_eq!(t[1], "7");
+                assert_eq!(t[2], "<f4");
+                assert_eq!(t[3], "True");
+                for (c, m) in means.iter().enumerate() {
+                    let v: f64 = t[4 + c].parse().unwrap();
+                    assert!(
+                        (v - m).abs() <= 1e-9 * m.abs().max(1.0),
+                        "column {c}: numpy {v} ours {m}"
+                    );
+                }
+            }
+        }
+        Err(_) => assert!(
+            std::env::var("STRATIPRIOR_REQUIRE_PYTHON").as_deref() != Ok("1"),
+            "STRATIPRIOR_REQUIRE_PYTHON=1 but STRATIPRIOR_PYTHON is not set"
+        ),
+    }
+}
+
+type Data = std::collections::BTreeMap<String, Vec<f32>>;
+
 fn rmse(a: &[f64], b: &[f64]) -> f64 {
     (a.iter().zip(b).map(|(x, y)| (x - y).powi(2)).sum::<f64>() / a.len() as f64).sqrt()
 }
@@ -81,6 +271,7 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
         data.insert(key, read_volume_on_grid(&o1.join(rel), g).unwrap());
     }
     assert_eq!(m["zones"].as_array().unwrap().len(), project.zones.len());
+    check_banks(&m, &o1, &o2, &data, g);
     for f in m["files"].as_array().unwrap() {
         assert!(o1.join(f["path"].as_str().unwrap()).exists());
     }

@@ -23,6 +23,7 @@
 //! Volumes are computed and written inline by inline, so memory does not grow
 //! with the number of inlines.
 
+use super::banks::{draw_banks, write_region, zone_pools, BankReport, BankVolumes, JointSample};
 use super::manifest::{Manifest, ManifestFile, ManifestVolume, OutsideFill};
 use super::variograms::{zone_property_variogram, VariogramRecord};
 use super::volume_sampling::{sample_volume, trace_at_depth};
@@ -46,6 +47,7 @@ use crate::study::{load, Study};
 use indicatif::{ProgressBar, ProgressStyle};
 use rayon::prelude::*;
 use serde::Serialize;
+use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
@@ -127,6 +129,8 @@ pub struct BuildReport {
     pub cells_outside: u64,
     /// Facies estimation per zone (empty when the project has no facies).
     pub facies: Vec<FaciesZoneReport>,
+    /// Sample banks per region (zone, facies).
+    pub banks: Vec<BankReport>,
     /// Warnings.
     pub warnings: Vec<String>,
 }
@@ -450,6 +454,12 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     let krigers: Vec<Kriger<'_, VariogramModel>> = zps
         .iter()
         .map(|zp| Kriger::new(&zp.samples, &zp.model, params, zp.kind))
+        .collect::<Result<_>>()?;
+
+    // leave-one-well-out kriged means at the samples, for the residual pools
+    let loo: Vec<BTreeMap<(u32, i32), f64>> = zps
+        .iter()
+        .map(|zp| loo_means(zp, params, p))
         .collect::<Result<_>>()?;
 
     // facies probabilities per zone: indicator kriging of the well facies,
@@ -785,6 +795,95 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         w.finish()?;
     }
 
+    // sample banks per region (zone, facies), drawn from the written volumes
+    let mut pools = Vec::new();
+    for zi in 0..nzones {
+        let mut joint = Vec::new();
+        for b in blocked.iter().filter(|b| b.zone == zi) {
+            let (Some(v0), Some(v1), Some(v2)) = (b.vp0, b.epsilon, b.delta) else {
+                continue;
+            };
+            let facies = if nk > 0 {
+                match b.facies.and_then(|c| codes.iter().position(|x| *x == c)) {
+                    Some(f) => Some(f),
+                    None => continue,
+                }
+            } else {
+                None
+            };
+            let key = (b.well as u32, b.layer as i32);
+            let mut m = [0.0; 3];
+            for (q, zp) in zps.iter().enumerate().filter(|(_, zp)| zp.zone == zi) {
+                m[zp.prop] = loo[q].get(&key).copied().unwrap_or(zp.mean);
+            }
+            joint.push(JointSample {
+                well: b.well,
+                facies,
+                xy: [b.x, b.y],
+                values: [v0, v1, v2],
+                loo: m,
+            });
+        }
+        let points: Vec<[f64; 2]> = joint.iter().map(|s| s.xy).collect();
+        let ws: Vec<usize> = joint.iter().map(|s| s.well).collect();
+        let weights = well_decluster_weights(&points, &ws)?;
+        pools.extend(zone_pools(zi, &joint, &weights, nk));
+    }
+    let bank_volumes = BankVolumes {
+        zone: metas[6].3.clone(),
+        means: [metas[0].3.clone(), metas[2].3.clone(), metas[4].3.clone()],
+        probabilities: (0..nk).map(|f| metas[7 + f].3.clone()).collect(),
+    };
+    let (bank_rows, masses) = draw_banks(g, &frame, &bank_volumes, &pools, p.seed, p.bank_count)?;
+    let bank_dir = out.join("banks");
+    let mut bank_entries = Vec::with_capacity(pools.len());
+    let mut bank_reports = Vec::with_capacity(pools.len());
+    for (r, pool) in pools.iter().enumerate() {
+        let zname = &p.zones[pool.zone].name;
+        let facies = pool
+            .facies
+            .and_then(|f| p.facies.get(f))
+            .map(|f| (f.name.as_str(), f.code));
+        let region = match facies {
+            Some((f, _)) => format!("zone {zname} facies {f}"),
+            None => format!("zone {zname}"),
+        };
+        let rows = bank_rows.get(r).map_or(&[][..], |v| v.as_slice());
+        let mass = masses.get(r).copied().unwrap_or(0.0);
+        let entry = write_region(&bank_dir, &out, r, pool, rows, mass, zname, facies, p.seed)?;
+        if pool.borrowed {
+            warnings.push(format!(
+                "bank {region}: only {} samples from {} wells (at least {} samples and {} wells wanted); too few to be trusted, the residual pool of the whole zone ({} samples, {} wells) is used",
+                pool.own_samples,
+                pool.own_wells,
+                super::banks::MIN_REGION_SAMPLES,
+                super::banks::MIN_REGION_WELLS,
+                pool.rows.len(),
+                pool.wells
+            ));
+        }
+        if pool.rows.is_empty() {
+            warnings.push(format!(
+                "bank {region}: no well sample has vp0, epsilon and delta in this zone; the bank is empty"
+            ));
+        } else if entry.count == 0 {
+            warnings.push(format!(
+                "bank {region}: the facies has zero probability in every cell of the zone; the bank is empty"
+            ));
+        }
+        bank_reports.push(BankReport {
+            zone: zname.clone(),
+            facies: facies.map(|f| f.0.to_string()),
+            count: entry.count,
+            pool_count: entry.pool_count,
+            wells: entry.wells,
+            region_samples: pool.own_samples,
+            region_wells: pool.own_wells,
+            pool: entry.pool.clone(),
+        });
+        bank_entries.push(entry);
+    }
+
     // reports and manifest
     drop(krigers);
     drop(facies_estimators);
@@ -845,6 +944,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             epsilon_delta_mean: 0.0,
         },
     );
+    manifest.banks = bank_entries;
     for (prop, stat, unit, path) in &metas {
         manifest.volumes.push(ManifestVolume {
             property: prop.clone(),
@@ -871,6 +971,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         cells_in_zones: cells_in,
         cells_outside: cells_out,
         facies: facies_reports,
+        banks: bank_reports,
         warnings,
     };
     let text = serde_json::to_string_pretty(&report)
@@ -882,6 +983,71 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     });
     manifest.write(&manifest_path)?;
     Ok(report)
+}
+
+/// Leave-one-well-out kriged means of every sample of `zp`, keyed by (well,
+/// layer): the kriging system of the zone and property rebuilt without the
+/// sample's well and solved at the sample (cross-validation by wells, common
+/// practice). Where no other well is in reach the zone mean (or the trend of
+/// simple kriging with a trend) stands in; epsilon and delta are clipped to the
+/// project bounds as the mean volumes are.
+fn loo_means(
+    zp: &ZoneProperty,
+    params: NeighbourhoodParams,
+    p: &crate::project::Project,
+) -> Result<BTreeMap<(u32, i32), f64>> {
+    let all = zp.samples.samples();
+    let mut wells: Vec<u32> = all.iter().map(|s| s.well).collect();
+    wells.sort_unstable();
+    wells.dedup();
+    let fallback = |s: &Sample| match zp.method {
+        KrigingMethod::SimpleTrend => s.trend.unwrap_or(zp.mean),
+        _ => zp.mean,
+    };
+    let clip = |m: f64| match zp.prop {
+        1 => m.clamp(p.bounds.epsilon.0, p.bounds.epsilon.1),
+        2 => m.clamp(p.bounds.delta.0, p.bounds.delta.1),
+        _ => m,
+    };
+    type WellMeans = Vec<((u32, i32), f64)>;
+    let per_well: Vec<Result<WellMeans>> = wells
+        .par_iter()
+        .map(|&w| {
+            let others: Vec<Sample> = all.iter().filter(|s| s.well != w).copied().collect();
+            let mine = all.iter().filter(|s| s.well == w);
+            let kriger = if others.is_empty() {
+                None
+            } else {
+                let set = SampleSet::new(others)?;
+                Some(set)
+            };
+            let k = match &kriger {
+                Some(set) => Kriger::new(set, &zp.model, params, zp.kind).ok(),
+                None => None,
+            };
+            Ok(mine
+                .map(|s| {
+                    let t = Target {
+                        pos: s.pos,
+                        drift: s.drift,
+                        trend: s.trend,
+                    };
+                    let m = match k.as_ref().map(|k| k.estimate(&t)) {
+                        Some(Ok(e)) if e.note != Note::NoNeighbours && e.value.is_finite() => {
+                            e.value
+                        }
+                        _ => fallback(s),
+                    };
+                    ((s.well, s.layer), clip(m))
+                })
+                .collect())
+        })
+        .collect();
+    let mut out = BTreeMap::new();
+    for r in per_well {
+        out.extend(r?);
+    }
+    Ok(out)
 }
 
 /// Indicator-kriging setups of every zone (None for zones without facies data
@@ -970,21 +1136,30 @@ fn prepare_facies(
 /// declustered in plan with a cell as large as the median distance from a well
 /// to its nearest neighbour (the spacing of the sparse part of the pattern,
 /// common practice), averaged over 5 x 5 grid origins.
-fn decluster_weights(fs: &[FaciesSample]) -> Result<Vec<f64>> {
+pub(crate) fn decluster_weights(fs: &[FaciesSample]) -> Result<Vec<f64>> {
     let points: Vec<[f64; 2]> = fs.iter().map(|f| [f.pos[0], f.pos[1]]).collect();
     let wells: Vec<usize> = fs.iter().map(|f| f.well as usize).collect();
+    well_decluster_weights(&points, &wells)
+}
+
+/// [`decluster_weights`] of samples at map positions `points` (m) from wells `wells`.
+pub(crate) fn well_decluster_weights(points: &[[f64; 2]], wells: &[usize]) -> Result<Vec<f64>> {
+    let n = points.len();
+    if n == 0 {
+        return Ok(Vec::new());
+    }
     // mean position of each well
-    let mut ids: Vec<usize> = wells.clone();
+    let mut ids: Vec<usize> = wells.to_vec();
     ids.sort_unstable();
     ids.dedup();
     if ids.len() < 2 {
-        return Ok(vec![1.0 / fs.len() as f64; fs.len()]);
+        return Ok(vec![1.0 / n as f64; n]);
     }
     let centres: Vec<[f64; 2]> = ids
         .iter()
         .map(|id| {
             let (mut x, mut y, mut n) = (0.0, 0.0, 0.0);
-            for (p, w) in points.iter().zip(&wells) {
+            for (p, w) in points.iter().zip(wells) {
                 if w == id {
                     x += p[0];
                     y += p[1];
@@ -1008,7 +1183,7 @@ fn decluster_weights(fs: &[FaciesSample]) -> Result<Vec<f64>> {
         .collect();
     nn.sort_by(f64::total_cmp);
     let cell = nn[nn.len() / 2].max(1.0);
-    crate::geostat::decluster::well_weights(&points, &wells, cell, 5)
+    crate::geostat::decluster::well_weights(points, wells, cell, 5)
 }
 
 /// Facies probabilities and kriging-variance ratio at fractional layer position
@@ -1124,6 +1299,31 @@ impl BuildReport {
         );
         for r in &self.zones {
             let _ = writeln!(s, "{}", r.variogram.toml);
+        }
+        if !self.banks.is_empty() {
+            let _ = writeln!(
+                s,
+                "\nSample banks (banks/, see manifest.json banks)\n  {:<12} {:<14} {:>7} {:>6} {:>7} {:>6} {:<6}",
+                "zone", "facies", "samples", "pool", "region", "wells", "pool of"
+            );
+            for b in &self.banks {
+                let _ = writeln!(
+                    s,
+                    "  {:<12} {:<14} {:>7} {:>6} {:>7} {:>6} {:<6}{}",
+                    b.zone,
+                    b.facies.as_deref().unwrap_or("(all)"),
+                    b.count,
+                    b.pool_count,
+                    b.region_samples,
+                    b.wells,
+                    b.pool,
+                    if b.pool == "zone" {
+                        "  warning: too few wells or samples in the region, zone pool borrowed"
+                    } else {
+                        ""
+                    }
+                );
+            }
         }
         if !self.warnings.is_empty() {
             let _ = writeln!(s, "\nWarnings");

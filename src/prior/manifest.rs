@@ -94,6 +94,44 @@ pub struct ManifestVolume {
     pub path: String,
 }
 
+/// A sample bank of one region (zone, facies) in the manifest.
+#[derive(Debug, Clone, Serialize)]
+pub struct ManifestBank {
+    /// Zone name.
+    pub zone: String,
+    /// Zone index, as in the zone volume.
+    pub zone_index: usize,
+    /// Facies name (`None` in a project without facies: the whole zone).
+    pub facies: Option<String>,
+    /// Facies code.
+    pub facies_code: Option<i32>,
+    /// The bank: float32 `.npy`, shape (count, 7), path relative to the manifest.
+    pub path: String,
+    /// The residual pool: float32 `.npy`, shape (pool_count, 5).
+    pub pool_path: String,
+    /// Rows of the bank.
+    pub count: usize,
+    /// Rows of the pool.
+    pub pool_count: usize,
+    /// Wells contributing to the pool.
+    pub wells: usize,
+    /// `"region"`: the pool of this region's samples; `"zone"`: too few wells or
+    /// samples, the pool of the whole zone (all facies) is borrowed.
+    pub pool: String,
+    /// Bank columns: vp0 (m/s), epsilon, delta, x, y (m), z (m TVDSS), s (m).
+    pub columns: Vec<String>,
+    /// Pool columns: vp0 (m/s), epsilon, delta residuals, weight, well index.
+    pub pool_columns: Vec<String>,
+    /// Facies offset d_f added to the mean volumes: vp0 (m/s), epsilon, delta.
+    pub offset: [f64; 3],
+    /// Project seed: the bank's generator is ChaCha8 seeded with it ...
+    pub seed: u64,
+    /// ... on stream `stream` (the region index).
+    pub stream: u64,
+    /// Probability mass of the region (sum of facies probabilities over its cells).
+    pub mass: f64,
+}
+
 /// What cells outside every zone hold.
 #[derive(Debug, Clone, Serialize)]
 pub struct OutsideFill {
@@ -122,8 +160,8 @@ pub struct Manifest {
     pub facies: Vec<ManifestFacies>,
     /// Volumes.
     pub volumes: Vec<ManifestVolume>,
-    /// Sample banks (none yet from this command).
-    pub banks: Vec<serde_json::Value>,
+    /// Sample banks, one per region (zone, facies).
+    pub banks: Vec<ManifestBank>,
     /// Seed.
     pub seed: u64,
     /// Fill outside every zone.
