@@ -402,4 +402,50 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
             );
         }
     }
+
+    // Issue check on the demo truth: for every region with at least two wells, the
+    // bank is closer (W1 per parameter) to the true distribution of the region's
+    // cells than the pooled all-well distribution of the zone is.
+    let study = stratiprior::study::load(&root().join("demo.toml"), false).unwrap();
+    let frame = study.strat_frame();
+    let wells = stratiprior::condition::logs::condition_all(&study, &frame).unwrap();
+    let truth_facies = read_npy_f32(&demo.join("demo_truth/facies.npy"));
+    let truths: Vec<Vec<f32>> = ["vp0", "epsilon", "delta"]
+        .iter()
+        .map(|p| read_npy_f32(&demo.join(format!("demo_truth/{p}.npy"))))
+        .collect();
+    for b in m["banks"].as_array().unwrap() {
+        if b["wells"].as_u64().unwrap() < 2 {
+            continue;
+        }
+        let zi = b["zone_index"].as_u64().unwrap() as usize;
+        let code = b["facies_code"].as_i64().unwrap() as f32;
+        let bank = read_npy_f32(&o1.join(b["path"].as_str().unwrap()));
+        let cells: Vec<usize> = (0..truth_zone.len())
+            .filter(|&k| truth_zone[k] == zi as f32 && truth_facies[k] == code)
+            .collect();
+        assert!(cells.len() > 100);
+        for (q, name) in ["vp0", "epsilon", "delta"].iter().enumerate() {
+            let t: Vec<f64> = cells.iter().map(|&k| f64::from(truths[q][k])).collect();
+            let bk: Vec<f64> = bank.chunks_exact(7).map(|r| f64::from(r[q])).collect();
+            let pooled: Vec<f64> = wells
+                .iter()
+                .flat_map(|w| w.blocked.iter())
+                .filter(|s| s.zone == zi)
+                .filter_map(|s| [s.vp0, s.epsilon, s.delta][q])
+                .collect();
+            let w_bank = wasserstein_1d(&bk, &t, None, None).unwrap();
+            let w_pool = wasserstein_1d(&pooled, &t, None, None).unwrap();
+            eprintln!(
+                "bank {} {name}: W1 to truth {w_bank:.5}, pooled wells {w_pool:.5}, ratio {:.3}",
+                b["path"],
+                w_bank / w_pool
+            );
+            assert!(
+                w_bank < w_pool,
+                "{} {name}: bank {w_bank} vs pooled {w_pool}",
+                b["path"]
+            );
+        }
+    }
 }
