@@ -37,6 +37,8 @@ struct RawProject {
     bounds: Option<RawBounds>,
     banks: Option<RawBanks>,
     #[serde(default)]
+    areas: Vec<RawArea>,
+    #[serde(default)]
     variograms: BTreeMap<String, BTreeMap<String, toml::Value>>,
 }
 
@@ -156,6 +158,23 @@ struct RawHorizon {
 #[serde(deny_unknown_fields)]
 struct RawBanks {
     count: Option<i64>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawArea {
+    name: String,
+    zones: Option<Vec<String>>,
+    polygon: Option<Vec<Vec<f64>>>,
+    #[serde(rename = "box")]
+    bbox: Option<RawAreaBox>,
+}
+
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawAreaBox {
+    inlines: (i64, i64),
+    xlines: (i64, i64),
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -625,6 +644,8 @@ pub struct Project {
     pub bounds: Bounds,
     /// Samples per region bank (`[banks] count`).
     pub bank_count: usize,
+    /// Lateral areas of zones (`[[areas]]`), in file order.
+    pub areas: Vec<AreaDef>,
     /// Variogram settings per zone name and property, as written (checked by the
     /// geostatistics module, which knows the model syntax).
     #[serde(skip)]
@@ -925,6 +946,9 @@ impl Project {
             Some(c) => c as usize,
             None => DEFAULT_BANK_COUNT,
         };
+
+        // lateral areas of zones
+        let areas = check_areas(&raw.areas, &zones, &grid, &perr)?;
 
         // volumes
         let v = &raw.volumes;
@@ -1241,6 +1265,7 @@ impl Project {
             kriging,
             bounds,
             bank_count,
+            areas,
             variograms: raw.variograms,
         })
     }
@@ -1260,4 +1285,300 @@ impl Project {
         v.extend(self.volumes.facies_probability.values().cloned());
         v
     }
+}
+
+/// The implicit area of a zone's nodes in none of its `[[areas]]`.
+pub const REST_AREA: &str = "rest";
+
+/// The lateral outline of an area.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub enum AreaShape {
+    /// A simple polygon of world (x, y) vertices, m (closed implicitly).
+    Polygon(Vec<[f64; 2]>),
+    /// Inclusive inline and crossline number ranges.
+    Box {
+        /// First and last inline number.
+        inlines: (i32, i32),
+        /// First and last crossline number.
+        xlines: (i32, i32),
+    },
+}
+
+/// A named lateral part of one or more zones (`[[areas]]`).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct AreaDef {
+    /// Area name (unique, not `rest`).
+    pub name: String,
+    /// Indices of the zones it splits, in [`Project::zones`].
+    pub zones: Vec<usize>,
+    /// Its outline.
+    pub shape: AreaShape,
+}
+
+/// Whether (x, y) lies inside the polygon `poly` by the even-odd ray-casting
+/// rule (a ray towards +x crosses the boundary an odd number of times; common
+/// practice, e.g. W. R. Franklin's PNPOLY test).
+pub fn point_in_polygon(poly: &[[f64; 2]], x: f64, y: f64) -> bool {
+    let mut inside = false;
+    let n = poly.len();
+    for a in 0..n {
+        let (p, q) = (poly[a], poly[(a + n - 1) % n]);
+        if (p[1] > y) != (q[1] > y) && x < (q[0] - p[0]) * (y - p[1]) / (q[1] - p[1]) + p[0] {
+            inside = !inside;
+        }
+    }
+    inside
+}
+
+impl AreaDef {
+    /// Whether world point (x, y) (m) lies in the area: point in polygon, or for
+    /// a box the fractional inline/crossline of (x, y) within the box +-0.5 lines.
+    pub fn contains_xy(&self, grid: &SurveyGrid, x: f64, y: f64) -> bool {
+        match &self.shape {
+            AreaShape::Polygon(p) => point_in_polygon(p, x, y),
+            AreaShape::Box { inlines, xlines } => {
+                let (i, j) = grid.xy_to_ij(x, y);
+                let il = f64::from(grid.inline_first) + i;
+                let xl = f64::from(grid.xline_first) + j;
+                il >= f64::from(inlines.0) - 0.5
+                    && il <= f64::from(inlines.1) + 0.5
+                    && xl >= f64::from(xlines.0) - 0.5
+                    && xl <= f64::from(xlines.1) + 0.5
+            }
+        }
+    }
+
+    /// Whether map node (i, j) (grid indices) lies in the area.
+    pub fn contains_node(&self, grid: &SurveyGrid, i: usize, j: usize) -> bool {
+        match &self.shape {
+            AreaShape::Polygon(p) => {
+                let (x, y) = grid.node_xy(i as f64, j as f64);
+                point_in_polygon(p, x, y)
+            }
+            AreaShape::Box { inlines, xlines } => {
+                let (il, xl) = (grid.inline_number(i), grid.xline_number(j));
+                il >= inlines.0 && il <= inlines.1 && xl >= xlines.0 && xl <= xlines.1
+            }
+        }
+    }
+}
+
+/// Index in `areas` of the area of zone `zone` holding map node (i, j), `None`
+/// when the node is in none of the zone's areas (the implicit area `rest`, or the
+/// whole zone when it has no areas).
+pub fn area_of_node(
+    areas: &[AreaDef],
+    grid: &SurveyGrid,
+    zone: usize,
+    i: usize,
+    j: usize,
+) -> Option<usize> {
+    areas
+        .iter()
+        .position(|a| a.zones.contains(&zone) && a.contains_node(grid, i, j))
+}
+
+/// Index in `areas` of the area of zone `zone` holding world point (x, y), m.
+pub fn area_of_xy(
+    areas: &[AreaDef],
+    grid: &SurveyGrid,
+    zone: usize,
+    x: f64,
+    y: f64,
+) -> Option<usize> {
+    areas
+        .iter()
+        .position(|a| a.zones.contains(&zone) && a.contains_xy(grid, x, y))
+}
+
+/// Whether closed segments ab and cd share a point (orientation tests, common practice).
+fn segments_touch(a: [f64; 2], b: [f64; 2], c: [f64; 2], d: [f64; 2]) -> bool {
+    let orient = |p: [f64; 2], q: [f64; 2], r: [f64; 2]| -> f64 {
+        (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0])
+    };
+    let on = |p: [f64; 2], q: [f64; 2], r: [f64; 2]| -> bool {
+        r[0] >= p[0].min(q[0])
+            && r[0] <= p[0].max(q[0])
+            && r[1] >= p[1].min(q[1])
+            && r[1] <= p[1].max(q[1])
+    };
+    let (d1, d2, d3, d4) = (
+        orient(c, d, a),
+        orient(c, d, b),
+        orient(a, b, c),
+        orient(a, b, d),
+    );
+    if ((d1 > 0.0 && d2 < 0.0) || (d1 < 0.0 && d2 > 0.0))
+        && ((d3 > 0.0 && d4 < 0.0) || (d3 < 0.0 && d4 > 0.0))
+    {
+        return true;
+    }
+    (d1 == 0.0 && on(c, d, a))
+        || (d2 == 0.0 && on(c, d, b))
+        || (d3 == 0.0 && on(a, b, c))
+        || (d4 == 0.0 && on(a, b, d))
+}
+
+/// Check `[[areas]]`: names, zones, exactly one outline, and no two areas of one
+/// zone sharing a map node.
+fn check_areas(
+    raw: &[RawArea],
+    zones: &[ZoneDef],
+    grid: &SurveyGrid,
+    perr: &dyn Fn(String) -> Error,
+) -> Result<Vec<AreaDef>> {
+    let mut out: Vec<AreaDef> = Vec::with_capacity(raw.len());
+    for (k, a) in raw.iter().enumerate() {
+        let key = format!("areas[{k}]");
+        if a.name.trim().is_empty() {
+            return Err(perr(format!("{key}.name: the name is empty")));
+        }
+        if a.name == REST_AREA {
+            return Err(perr(format!(
+                "{key}.name: `{REST_AREA}` is reserved for the nodes of a zone in none of its areas"
+            )));
+        }
+        if out.iter().any(|o| o.name == a.name) {
+            return Err(perr(format!(
+                "{key}.name: area `{}` is defined twice; area names must be unique",
+                a.name
+            )));
+        }
+        let zone_idx: Vec<usize> = match &a.zones {
+            None => (0..zones.len()).collect(),
+            Some(names) if names.is_empty() => {
+                return Err(perr(format!(
+                    "{key}.zones: the list is empty; name at least one zone or leave the key out for all zones"
+                )))
+            }
+            Some(names) => {
+                let mut v = Vec::with_capacity(names.len());
+                for n in names {
+                    let Some(z) = zones.iter().position(|z| &z.name == n) else {
+                        let known: Vec<&str> = zones.iter().map(|z| z.name.as_str()).collect();
+                        return Err(perr(format!(
+                            "{key}.zones: unknown zone `{n}`; the zones are {}",
+                            known.join(", ")
+                        )));
+                    };
+                    if v.contains(&z) {
+                        return Err(perr(format!("{key}.zones: zone `{n}` is listed twice")));
+                    }
+                    v.push(z);
+                }
+                v
+            }
+        };
+        let shape = match (&a.polygon, &a.bbox) {
+            (Some(_), Some(_)) => {
+                return Err(perr(format!(
+                    "{key}: both `polygon` and `box` are given; an area has exactly one of them"
+                )))
+            }
+            (None, None) => {
+                return Err(perr(format!(
+                    "{key}: neither `polygon` nor `box` is given; an area has exactly one of them"
+                )))
+            }
+            (Some(p), None) => {
+                let key = format!("{key}.polygon");
+                let mut v: Vec<[f64; 2]> = Vec::with_capacity(p.len());
+                for (n, xy) in p.iter().enumerate() {
+                    match xy.as_slice() {
+                        [x, y] if x.is_finite() && y.is_finite() => v.push([*x, *y]),
+                        _ => {
+                            return Err(perr(format!(
+                                "{key}[{n}]: expected a vertex [x, y] of two finite world coordinates in metres, got {xy:?}"
+                            )))
+                        }
+                    }
+                }
+                if v.len() < 3 {
+                    return Err(perr(format!(
+                        "{key}: a polygon needs at least 3 vertices, got {}",
+                        v.len()
+                    )));
+                }
+                let n = v.len();
+                for e in 0..n {
+                    if v[e] == v[(e + 1) % n] {
+                        return Err(perr(format!(
+                            "{key}: vertices {e} and {} are the same point; give each vertex once (the polygon closes itself)",
+                            (e + 1) % n
+                        )));
+                    }
+                }
+                for e in 0..n {
+                    for f in e + 1..n {
+                        // adjacent edges share a vertex by construction
+                        if f == e + 1 || (e == 0 && f == n - 1) {
+                            continue;
+                        }
+                        if segments_touch(v[e], v[(e + 1) % n], v[f], v[(f + 1) % n]) {
+                            return Err(perr(format!(
+                                "{key}: edge {e}-{} crosses or touches edge {f}-{}; the polygon must be simple (not self-intersecting)",
+                                (e + 1) % n,
+                                (f + 1) % n
+                            )));
+                        }
+                    }
+                }
+                if n == 3 {
+                    // three distinct collinear vertices enclose nothing
+                    let [a, b, c] = [v[0], v[1], v[2]];
+                    if (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0]) == 0.0 {
+                        return Err(perr(format!("{key}: the 3 vertices are collinear")));
+                    }
+                }
+                AreaShape::Polygon(v)
+            }
+            (None, Some(b)) => {
+                let lines = |sub: &str, r: (i64, i64), first: i32, count: usize| {
+                    let last = i64::from(first) + count as i64 - 1;
+                    if r.0 > r.1 || r.0 < i64::from(first) || r.1 > last {
+                        return Err(perr(format!(
+                            "{key}.box.{sub}: expected [first, last] line numbers with first <= last within the survey's {first}..={last}, got [{}, {}]",
+                            r.0, r.1
+                        )));
+                    }
+                    Ok((r.0 as i32, r.1 as i32))
+                };
+                let inlines = lines("inlines", b.inlines, grid.inline_first, grid.inline_count)?;
+                let xlines = lines("xlines", b.xlines, grid.xline_first, grid.xline_count)?;
+                AreaShape::Box { inlines, xlines }
+            }
+        };
+        out.push(AreaDef {
+            name: a.name.clone(),
+            zones: zone_idx,
+            shape,
+        });
+    }
+    // no two areas of a zone share a map node
+    for (zi, z) in zones.iter().enumerate() {
+        let of_zone: Vec<usize> = (0..out.len())
+            .filter(|&a| out[a].zones.contains(&zi))
+            .collect();
+        if of_zone.len() < 2 {
+            continue;
+        }
+        for i in 0..grid.inline_count {
+            for j in 0..grid.xline_count {
+                let mut hit = of_zone
+                    .iter()
+                    .filter(|&&a| out[a].contains_node(grid, i, j));
+                if let (Some(&a), Some(&b)) = (hit.next(), hit.next()) {
+                    return Err(perr(format!(
+                        "areas[{b}]: areas `{}` and `{}` overlap in zone `{}` at node inline {}, crossline {}; the areas of a zone must not overlap",
+                        out[a].name,
+                        out[b].name,
+                        z.name,
+                        grid.inline_number(i),
+                        grid.xline_number(j)
+                    )));
+                }
+            }
+        }
+    }
+    Ok(out)
 }

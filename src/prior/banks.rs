@@ -1,4 +1,5 @@
-//! Per-region sample banks: for every region (zone, facies) a pool of joint
+//! Per-region sample banks: for every region (zone, facies), or (zone, area,
+//! facies) in a zone split into `[[areas]]`, a pool of joint
 //! residual vectors (vp0, epsilon, delta) of the well samples, and a bank of
 //! draws of the region's prior distribution over its cells.
 //!
@@ -12,6 +13,10 @@
 //! * Bank: `N` draws; each draws a cell of the region with probability
 //!   proportional to its facies probability, a pool vector by weight, and adds
 //!   the trend at that cell (the mean volumes as written, f32, plus `d_f`).
+//!   In a zone with areas, a region's cells are the zone's cells whose map node
+//!   lies in the area (nodes in none of the zone's areas form the area `rest`),
+//!   and its samples those whose (x, y) lies in the area; `d_f` is then the
+//!   region's declustered mean minus the declustered mean of the whole zone.
 //!   Rows are in trace order of their cells (inline, crossline, depth).
 //!
 //! The volumes are streamed twice from the written SEG-Y files (memory: one
@@ -23,14 +28,15 @@ use crate::formats::npy::write_npy_f32;
 use crate::formats::segy::SegyReader;
 use crate::frame::strat::StratFrame;
 use crate::grid::SurveyGrid;
+use crate::project::{area_of_node, AreaDef};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
 use std::path::{Path, PathBuf};
 
-/// Regions with fewer wells than this borrow the zone pool.
+/// Regions with fewer wells than this borrow the area pool, then the zone pool.
 pub const MIN_REGION_WELLS: usize = 2;
-/// Regions with fewer samples than this borrow the zone pool.
+/// Regions with fewer samples than this borrow the area pool, then the zone pool.
 pub const MIN_REGION_SAMPLES: usize = 30;
 
 /// Bank columns.
@@ -53,11 +59,36 @@ pub struct JointSample {
     pub loo: [f64; 3],
 }
 
+/// Whose samples a region's pool holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PoolSource {
+    /// The region's own samples.
+    Region,
+    /// Too few: every facies of the region's (zone, area).
+    Area,
+    /// Too few again (or a zone without areas): the whole zone.
+    Zone,
+}
+
+impl PoolSource {
+    /// Manifest spelling: `region`, `area` or `zone`.
+    pub fn name(self) -> &'static str {
+        match self {
+            PoolSource::Region => "region",
+            PoolSource::Area => "area",
+            PoolSource::Zone => "zone",
+        }
+    }
+}
+
 /// One region's residual pool and offset, ready to draw.
 #[derive(Debug, Clone)]
 pub struct RegionPool {
     /// Zone index.
     pub zone: usize,
+    /// Area slot: `None` for a zone without areas; `Some(None)` for the zone's
+    /// implicit area `rest`; `Some(Some(a))` for project area `a`.
+    pub area: Option<Option<usize>>,
     /// Facies index (`None`: the whole zone, a project without facies).
     pub facies: Option<usize>,
     /// Facies offset `d_f`: vp0 (m/s), epsilon, delta.
@@ -70,8 +101,14 @@ pub struct RegionPool {
     pub own_wells: usize,
     /// Wells contributing to `rows`.
     pub wells: usize,
-    /// `true`: the zone pool is borrowed.
+    /// `true`: a larger pool is borrowed.
     pub borrowed: bool,
+    /// Whose samples `rows` holds.
+    pub source: PoolSource,
+    /// Generator stream of the region's bank (see [`assign_streams`]).
+    pub stream: u64,
+    /// Samples of the pool borrowed from (`rows.len()`).
+    pub pool_samples: usize,
 }
 
 /// What was drawn for one region.
@@ -79,6 +116,8 @@ pub struct RegionPool {
 pub struct BankReport {
     /// Zone name.
     pub zone: String,
+    /// Area name (`None`: a zone without areas).
+    pub area: Option<String>,
     /// Facies name.
     pub facies: Option<String>,
     /// Bank rows.
@@ -91,7 +130,7 @@ pub struct BankReport {
     pub region_samples: usize,
     /// Wells of the region itself.
     pub region_wells: usize,
-    /// `region` or `zone` (borrowed).
+    /// `region`, `area` or `zone` (borrowed).
     pub pool: String,
 }
 
@@ -116,85 +155,168 @@ fn weighted_mean3(rows: &[(&JointSample, f64)]) -> [f64; 3] {
     m.map(|v| v / tot)
 }
 
-/// The pools of every region of one zone. `samples` are the zone's joint
-/// samples, `weights` their declustering weights (sum 1), `nk` the facies count
-/// (0 without facies).
-///
-/// Offset `d_f = sum_{i in f} w_i v_i / sum_{i in f} w_i - sum_i w_i v_i`
-/// (declustered means, Deutsch 1989 cell declustering); residual
-/// `r_i = v_i - (m_loo,i + d_{f_i})`. A region with fewer than
-/// [`MIN_REGION_WELLS`] wells or [`MIN_REGION_SAMPLES`] samples gets the zone
-/// pool (every facies' residuals, the zone weights); a facies without samples
-/// gets `d_f = 0`.
+/// The pools of every region of one zone without areas. `samples` are the
+/// zone's joint samples, `weights` their declustering weights (sum 1), `nk` the
+/// facies count (0 without facies). See [`zone_area_pools`].
 pub fn zone_pools(
     zone: usize,
     samples: &[JointSample],
     weights: &[f64],
     nk: usize,
 ) -> Vec<RegionPool> {
-    let all: Vec<(&JointSample, f64)> = samples.iter().zip(weights.iter().copied()).collect();
-    let zone_mean = weighted_mean3(&all);
+    let slots = vec![0usize; samples.len()];
+    zone_area_pools(zone, samples, weights, nk, &[None], &slots)
+}
+
+/// The pools of every region (area, facies) of one zone. `samples` are the
+/// zone's joint samples, `weights` their declustering weights over the zone
+/// (sum 1), `nk` the facies count (0 without facies), `areas` the zone's area
+/// slots (`[None]` for a zone without areas; else `Some(a)` per project area and
+/// `None` for `rest`), `slot[i]` the index in `areas` of sample `i`'s area.
+///
+/// Offset of region (a, f):
+/// `d = sum_{i in (a,f)} w_i v_i / sum_{i in (a,f)} w_i - sum_i w_i v_i` (declustered means, Deutsch 1989 cell declustering, relative
+/// to the whole zone); residual `r_i = v_i - (m_loo,i + d_{region(i)})`. A
+/// region with fewer than [`MIN_REGION_WELLS`] wells or [`MIN_REGION_SAMPLES`]
+/// samples gets the pool of its area (all facies; the zone weights renormalised)
+/// when that one has enough, else the zone pool (every sample, the zone
+/// weights). A region without samples gets the offset of its facies over the
+/// whole zone (0 when the facies has no sample in the zone either).
+pub fn zone_area_pools(
+    zone: usize,
+    samples: &[JointSample],
+    weights: &[f64],
+    nk: usize,
+    areas: &[Option<usize>],
+    slot: &[usize],
+) -> Vec<RegionPool> {
+    let all: Vec<(&JointSample, f64, usize)> = samples
+        .iter()
+        .zip(weights.iter().copied())
+        .zip(slot.iter().copied())
+        .map(|((s, w), a)| (s, w, a))
+        .collect();
+    let pairs = |rows: &[&(&JointSample, f64, usize)]| -> [f64; 3] {
+        let v: Vec<(&JointSample, f64)> = rows.iter().map(|r| (r.0, r.1)).collect();
+        weighted_mean3(&v)
+    };
+    let everything: Vec<&(&JointSample, f64, usize)> = all.iter().collect();
+    let zone_mean = pairs(&everything);
     let facies_list: Vec<Option<usize>> = if nk == 0 {
         vec![None]
     } else {
         (0..nk).map(Some).collect()
     };
-    let offsets: Vec<[f64; 3]> = facies_list
-        .iter()
-        .map(|f| {
-            let rows: Vec<(&JointSample, f64)> =
-                all.iter().copied().filter(|r| r.0.facies == *f).collect();
-            if rows.is_empty() || f.is_none() {
-                [0.0; 3]
-            } else {
-                let m = weighted_mean3(&rows);
-                [0, 1, 2].map(|q| m[q] - zone_mean[q])
-            }
-        })
-        .collect();
-    let offset_of = |f: Option<usize>| -> [f64; 3] {
-        facies_list
+    let offset_where = |keep: &dyn Fn(&JointSample, usize) -> bool, f: Option<usize>| {
+        let rows: Vec<&(&JointSample, f64, usize)> =
+            all.iter().filter(|r| keep(r.0, r.2)).collect();
+        if rows.is_empty() || f.is_none() {
+            None
+        } else {
+            let m = pairs(&rows);
+            Some([0, 1, 2].map(|q| m[q] - zone_mean[q]))
+        }
+    };
+    // offsets per (area slot, facies)
+    let mut offsets: Vec<Vec<[f64; 3]>> = Vec::with_capacity(areas.len());
+    for a in 0..areas.len() {
+        let row = facies_list
             .iter()
-            .position(|x| *x == f)
-            .and_then(|k| offsets.get(k).copied())
+            .map(|&f| {
+                offset_where(&|s, sa| sa == a && s.facies == f, f)
+                    .or_else(|| offset_where(&|s, _| s.facies == f, f))
+                    .unwrap_or([0.0; 3])
+            })
+            .collect();
+        offsets.push(row);
+    }
+    let offset_of = |a: usize, f: Option<usize>| -> [f64; 3] {
+        let k = facies_list.iter().position(|x| *x == f);
+        k.and_then(|k| offsets.get(a).and_then(|o| o.get(k)).copied())
             .unwrap_or([0.0; 3])
     };
-    let residual = |s: &JointSample| -> [f64; 3] {
-        let d = offset_of(s.facies);
+    let residual = |s: &JointSample, a: usize| -> [f64; 3] {
+        let d = offset_of(a, s.facies);
         [0, 1, 2].map(|q| s.values[q] - (s.loo[q] + d[q]))
     };
-    let zone_rows: Vec<([f64; 3], f64, usize)> =
-        all.iter().map(|(s, w)| (residual(s), *w, s.well)).collect();
-    let zone_wells = count_wells(samples.iter().map(|s| s.well));
-    facies_list
+    let pool_of = |rows: &[&(&JointSample, f64, usize)]| -> Option<Vec<([f64; 3], f64, usize)>> {
+        let wells = count_wells(rows.iter().map(|r| r.0.well));
+        let tot: f64 = rows.iter().map(|r| r.1).sum();
+        if rows.len() < MIN_REGION_SAMPLES
+            || wells < MIN_REGION_WELLS
+            || tot.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater)
+        {
+            return None;
+        }
+        Some(
+            rows.iter()
+                .map(|(s, w, a)| (residual(s, *a), w / tot, s.well))
+                .collect(),
+        )
+    };
+    let zone_rows: Vec<([f64; 3], f64, usize)> = all
         .iter()
-        .zip(&offsets)
-        .map(|(f, d)| {
-            let own: Vec<&(&JointSample, f64)> = all.iter().filter(|r| r.0.facies == *f).collect();
+        .map(|(s, w, a)| (residual(s, *a), *w, s.well))
+        .collect();
+    let zone_wells = count_wells(samples.iter().map(|s| s.well));
+    let has_areas = areas.len() > 1 || areas.first().is_some_and(|a| a.is_some());
+    let mut out = Vec::with_capacity(areas.len() * facies_list.len());
+    for (ai, area) in areas.iter().enumerate() {
+        let in_area: Vec<&(&JointSample, f64, usize)> = all.iter().filter(|r| r.2 == ai).collect();
+        let area_pool = if has_areas { pool_of(&in_area) } else { None };
+        for &f in &facies_list {
+            let own: Vec<&(&JointSample, f64, usize)> = in_area
+                .iter()
+                .copied()
+                .filter(|r| r.0.facies == f)
+                .collect();
             let own_wells = count_wells(own.iter().map(|r| r.0.well));
-            let tot: f64 = own.iter().map(|r| r.1).sum();
-            let borrowed = own.len() < MIN_REGION_SAMPLES
-                || own_wells < MIN_REGION_WELLS
-                || tot.partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater);
-            let rows = if borrowed {
-                zone_rows.clone()
-            } else {
-                own.iter()
-                    .map(|(s, w)| (residual(s), w / tot, s.well))
-                    .collect()
+            let (rows, source, wells) = match pool_of(&own) {
+                Some(rows) => (rows, PoolSource::Region, own_wells),
+                None => match &area_pool {
+                    Some(rows) => (
+                        rows.clone(),
+                        PoolSource::Area,
+                        count_wells(in_area.iter().map(|r| r.0.well)),
+                    ),
+                    None => (zone_rows.clone(), PoolSource::Zone, zone_wells),
+                },
             };
-            RegionPool {
+            out.push(RegionPool {
                 zone,
-                facies: *f,
-                offset: *d,
+                area: has_areas.then_some(*area),
+                facies: f,
+                offset: offset_of(ai, f),
+                pool_samples: rows.len(),
                 rows,
                 own_samples: own.len(),
                 own_wells,
-                wells: if borrowed { zone_wells } else { own_wells },
-                borrowed,
-            }
-        })
-        .collect()
+                wells,
+                borrowed: source != PoolSource::Region,
+                source,
+                stream: 0,
+            });
+        }
+    }
+    out
+}
+
+/// Number the generator streams of `pools` (zone-major): a region of a zone
+/// without areas gets `zone * F + f` (F = facies count, at least 1), its index
+/// in a project without any areas, so splitting one zone into areas leaves the
+/// banks of the other zones unchanged; area regions are numbered after all of
+/// those, `nzones * F + k`, in order.
+pub fn assign_streams(pools: &mut [RegionPool], nzones: usize, nk: usize) {
+    let f_count = nk.max(1);
+    let mut next = (nzones * f_count) as u64;
+    for p in pools.iter_mut() {
+        p.stream = if p.area.is_none() {
+            (p.zone * f_count + p.facies.unwrap_or(0)) as u64
+        } else {
+            next += 1;
+            next - 1
+        };
+    }
 }
 
 /// The written volumes a bank draw reads.
@@ -210,9 +332,9 @@ pub struct BankVolumes {
 
 /// Seed and stream of region `r`'s generator: ChaCha8 seeded from the project
 /// seed, stream = region index (independent streams, independent of threads).
-fn region_rng(seed: u64, r: usize) -> ChaCha8Rng {
+fn region_rng(seed: u64, stream: u64) -> ChaCha8Rng {
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
-    rng.set_stream(r as u64);
+    rng.set_stream(stream);
     rng
 }
 
@@ -289,11 +411,16 @@ fn regions_of_zone(pools: &[RegionPool], zone: usize) -> std::ops::Range<usize> 
 /// pass 2 walks the cumulative mass in the same cell order and takes, for each
 /// position, the cell whose mass interval holds it. Residuals are drawn from the
 /// pool by weight with the same generator (after the positions).
+///
+/// A region of a zone with areas (`pool.area` set) takes only the cells whose
+/// map node is in its area ([`crate::project::area_of_node`] over `areas`).
+#[allow(clippy::too_many_arguments)]
 pub fn draw_banks(
     grid: &SurveyGrid,
     frame: &StratFrame,
     volumes: &BankVolumes,
     pools: &[RegionPool],
+    areas: &[AreaDef],
     seed: u64,
     count: usize,
 ) -> Result<(Vec<Vec<f32>>, Vec<f64>)> {
@@ -301,16 +428,33 @@ pub fn draw_banks(
     let nzones = frame.zones.len();
     let zone_ranges: Vec<std::ops::Range<usize>> =
         (0..nzones).map(|z| regions_of_zone(pools, z)).collect();
+    let nj = grid.xline_count.max(1);
+    // whether region r takes the cells of node (i, j)
+    let node_regions = |i: usize, j: usize| -> Vec<bool> {
+        pools
+            .iter()
+            .map(|p| match p.area {
+                None => true,
+                Some(a) => area_of_node(areas, grid, p.zone, i, j) == a,
+            })
+            .collect()
+    };
     // pass 1: mass per region
     let mut mass = vec![0f64; pools.len()];
     let mut st = Streams::open(volumes, nz)?;
+    let mut trace = 0usize;
     while st.next()? {
+        let here = node_regions(trace / nj, trace % nj);
+        trace += 1;
         for k in 0..nz {
             let z = st.bufs[0][k];
             if z.is_nan() || z < 0.0 || z as usize >= nzones {
                 continue;
             }
             for r in zone_ranges[z as usize].clone() {
+                if !here[r] {
+                    continue;
+                }
                 mass[r] += st.prob(pools[r].facies, k);
             }
         }
@@ -324,7 +468,7 @@ pub fn draw_banks(
         } else {
             0
         };
-        let mut rng = region_rng(seed, r);
+        let mut rng = region_rng(seed, pool.stream);
         let mut pos: Vec<f64> = (0..n).map(|_| rng.gen::<f64>() * mass[r]).collect();
         pos.sort_by(f64::total_cmp);
         let mut cum = Vec::with_capacity(pool.rows.len());
@@ -350,11 +494,11 @@ pub fn draw_banks(
     let mut cum = vec![0f64; pools.len()];
     let mut st = Streams::open(volumes, nz)?;
     let mut trace = 0usize;
-    let nj = grid.xline_count.max(1);
     let mut last_row: Vec<Option<[f32; 7]>> = vec![None; pools.len()];
     while st.next()? {
         let (i, j) = (trace / nj, trace % nj);
         trace += 1;
+        let here = node_regions(i, j);
         let (x, y) = grid.node_xy(i as f64, j as f64);
         for k in 0..nz {
             let z = st.bufs[0][k];
@@ -363,7 +507,7 @@ pub fn draw_banks(
             }
             for r in zone_ranges[z as usize].clone() {
                 let p = st.prob(pools[r].facies, k);
-                if p <= 0.0 {
+                if p <= 0.0 || !here[r] {
                     continue;
                 }
                 let next = cum[r] + p;
@@ -427,17 +571,21 @@ pub fn draw_banks(
 pub fn write_region(
     dir: &Path,
     out: &Path,
-    region: usize,
     pool: &RegionPool,
     bank: &[f32],
     mass: f64,
     zone_name: &str,
+    area: Option<&str>,
     facies: Option<(&str, i32)>,
     seed: u64,
 ) -> Result<ManifestBank> {
     let stem = format!(
-        "{}_{}",
+        "{}{}_{}",
         crate::condition::output::file_stem(zone_name),
+        area.map_or(String::new(), |a| format!(
+            "_{}",
+            crate::condition::output::file_stem(a)
+        )),
         facies.map_or("all".to_string(), |f| crate::condition::output::file_stem(
             f.0
         ))
@@ -466,6 +614,7 @@ pub fn write_region(
     Ok(ManifestBank {
         zone: zone_name.to_string(),
         zone_index: pool.zone,
+        area: area.map(str::to_string),
         facies: facies.map(|f| f.0.to_string()),
         facies_code: facies.map(|f| f.1),
         path: rel(&bank_path),
@@ -473,12 +622,12 @@ pub fn write_region(
         count: n,
         pool_count: pool.rows.len(),
         wells: pool.wells,
-        pool: if pool.borrowed { "zone" } else { "region" }.into(),
+        pool: pool.source.name().into(),
         columns: BANK_COLUMNS.iter().map(|s| s.to_string()).collect(),
         pool_columns: POOL_COLUMNS.iter().map(|s| s.to_string()).collect(),
         offset: pool.offset,
         seed,
-        stream: region as u64,
+        stream: pool.stream,
         mass,
     })
 }

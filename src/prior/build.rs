@@ -23,7 +23,9 @@
 //! Volumes are computed and written inline by inline, so memory does not grow
 //! with the number of inlines.
 
-use super::banks::{draw_banks, write_region, zone_pools, BankReport, BankVolumes, JointSample};
+use super::banks::{
+    draw_banks, write_region, zone_area_pools, BankReport, BankVolumes, JointSample, PoolSource,
+};
 use super::manifest::{Manifest, ManifestFile, ManifestVolume, OutsideFill};
 use super::variograms::{zone_property_variogram, VariogramRecord};
 use super::volume_sampling::{sample_volume, trace_at_depth};
@@ -795,9 +797,21 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         w.finish()?;
     }
 
-    // sample banks per region (zone, facies), drawn from the written volumes
+    // sample banks per region (zone, facies) or (zone, area, facies), drawn from the written volumes
     let mut pools = Vec::new();
     for zi in 0..nzones {
+        let mut area_slots: Vec<Option<usize>> = (0..p.areas.len())
+            .filter(|&a| p.areas[a].zones.contains(&zi))
+            .map(Some)
+            .collect();
+        // the implicit area `rest`: zone nodes in none of its areas (or the whole zone)
+        let rest_has_nodes = (0..g.inline_count).any(|i| {
+            (0..g.xline_count)
+                .any(|j| crate::project::area_of_node(&p.areas, g, zi, i, j).is_none())
+        });
+        if area_slots.is_empty() || rest_has_nodes {
+            area_slots.push(None);
+        }
         let mut joint = Vec::new();
         for b in blocked.iter().filter(|b| b.zone == zi) {
             let (Some(v0), Some(v1), Some(v2)) = (b.vp0, b.epsilon, b.delta) else {
@@ -827,14 +841,37 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         let points: Vec<[f64; 2]> = joint.iter().map(|s| s.xy).collect();
         let ws: Vec<usize> = joint.iter().map(|s| s.well).collect();
         let weights = well_decluster_weights(&points, &ws)?;
-        pools.extend(zone_pools(zi, &joint, &weights, nk));
+        let slot: Vec<usize> = joint
+            .iter()
+            .map(|s| {
+                let a = crate::project::area_of_xy(&p.areas, g, zi, s.xy[0], s.xy[1]);
+                area_slots.iter().position(|x| *x == a).unwrap_or(0)
+            })
+            .collect();
+        pools.extend(zone_area_pools(
+            zi,
+            &joint,
+            &weights,
+            nk,
+            &area_slots,
+            &slot,
+        ));
     }
+    super::banks::assign_streams(&mut pools, nzones, nk);
     let bank_volumes = BankVolumes {
         zone: metas[6].3.clone(),
         means: [metas[0].3.clone(), metas[2].3.clone(), metas[4].3.clone()],
         probabilities: (0..nk).map(|f| metas[7 + f].3.clone()).collect(),
     };
-    let (bank_rows, masses) = draw_banks(g, &frame, &bank_volumes, &pools, p.seed, p.bank_count)?;
+    let (bank_rows, masses) = draw_banks(
+        g,
+        &frame,
+        &bank_volumes,
+        &pools,
+        &p.areas,
+        p.seed,
+        p.bank_count,
+    )?;
     let bank_dir = out.join("banks");
     let mut bank_entries = Vec::with_capacity(pools.len());
     let mut bank_reports = Vec::with_capacity(pools.len());
@@ -844,16 +881,32 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             .facies
             .and_then(|f| p.facies.get(f))
             .map(|f| (f.name.as_str(), f.code));
-        let region = match facies {
-            Some((f, _)) => format!("zone {zname} facies {f}"),
+        let area: Option<&str> = pool.area.map(|a| {
+            a.and_then(|a| p.areas.get(a))
+                .map_or(crate::project::REST_AREA, |a| a.name.as_str())
+        });
+        let zone_area = match area {
+            Some(a) => format!("zone {zname} area {a}"),
             None => format!("zone {zname}"),
+        };
+        let region = match facies {
+            Some((f, _)) => format!("{zone_area} facies {f}"),
+            None => zone_area.clone(),
         };
         let rows = bank_rows.get(r).map_or(&[][..], |v| v.as_slice());
         let mass = masses.get(r).copied().unwrap_or(0.0);
-        let entry = write_region(&bank_dir, &out, r, pool, rows, mass, zname, facies, p.seed)?;
+        let entry = write_region(
+            &bank_dir, &out, pool, rows, mass, zname, area, facies, p.seed,
+        )?;
         if pool.borrowed {
+            let whose = match pool.source {
+                PoolSource::Area => {
+                    format!("the residual pool of the whole area ({zone_area}, every facies)")
+                }
+                _ => "the residual pool of the whole zone".to_string(),
+            };
             warnings.push(format!(
-                "bank {region}: only {} samples from {} wells (at least {} samples and {} wells wanted); too few to be trusted, the residual pool of the whole zone ({} samples, {} wells) is used",
+                "bank {region}: only {} samples from {} wells (at least {} samples and {} wells wanted); too few to be trusted, {whose} ({} samples, {} wells) is used",
                 pool.own_samples,
                 pool.own_wells,
                 super::banks::MIN_REGION_SAMPLES,
@@ -873,6 +926,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         }
         bank_reports.push(BankReport {
             zone: zname.clone(),
+            area: area.map(str::to_string),
             facies: facies.map(|f| f.0.to_string()),
             count: entry.count,
             pool_count: entry.pool_count,
@@ -1310,17 +1364,22 @@ impl BuildReport {
                 let _ = writeln!(
                     s,
                     "  {:<12} {:<14} {:>7} {:>6} {:>7} {:>6} {:<6}{}",
-                    b.zone,
+                    match &b.area {
+                        Some(a) => format!("{}/{a}", b.zone),
+                        None => b.zone.clone(),
+                    },
                     b.facies.as_deref().unwrap_or("(all)"),
                     b.count,
                     b.pool_count,
                     b.region_samples,
                     b.wells,
                     b.pool,
-                    if b.pool == "zone" {
-                        "  warning: too few wells or samples in the region, zone pool borrowed"
-                    } else {
-                        ""
+                    match b.pool.as_str() {
+                        "zone" =>
+                            "  warning: too few wells or samples in the region, zone pool borrowed",
+                        "area" =>
+                            "  warning: too few wells or samples in the region, area pool borrowed",
+                        _ => "",
                     }
                 );
             }

@@ -101,6 +101,9 @@ pub struct ManifestBank {
     pub zone: String,
     /// Zone index, as in the zone volume.
     pub zone_index: usize,
+    /// Area name (`[[areas]]`, or `rest` for the zone's nodes in none of them);
+    /// `None` for a zone without areas.
+    pub area: Option<String>,
     /// Facies name (`None` in a project without facies: the whole zone).
     pub facies: Option<String>,
     /// Facies code.
@@ -115,8 +118,9 @@ pub struct ManifestBank {
     pub pool_count: usize,
     /// Wells contributing to the pool.
     pub wells: usize,
-    /// `"region"`: the pool of this region's samples; `"zone"`: too few wells or
-    /// samples, the pool of the whole zone (all facies) is borrowed.
+    /// `"region"`: the pool of this region's samples; `"area"`: too few wells or
+    /// samples, the pool of the region's (zone, area) (all facies) is borrowed;
+    /// `"zone"`: too few there too (or no areas), the pool of the whole zone.
     pub pool: String,
     /// Bank columns: vp0 (m/s), epsilon, delta, x, y (m), z (m TVDSS), s (m).
     pub columns: Vec<String>,
@@ -126,7 +130,9 @@ pub struct ManifestBank {
     pub offset: [f64; 3],
     /// Project seed: the bank's generator is ChaCha8 seeded with it ...
     pub seed: u64,
-    /// ... on stream `stream` (the region index).
+    /// ... on stream `stream`: `zone_index * F + facies index` (F = facies
+    /// count, at least 1) in a zone without areas; area regions are numbered
+    /// after all of those, in manifest order.
     pub stream: u64,
     /// Probability mass of the region (sum of facies probabilities over its cells).
     pub mass: f64,
