@@ -683,6 +683,59 @@ mod tests {
     }
 
     #[test]
+    fn area_regions_borrow_the_area_pool_then_the_zone_pool() {
+        // area 0: facies 0 40 samples / 4 wells (own pool), facies 1 10 samples /
+        // 1 well (borrows area 0's 50 samples); area 1 (`rest`): 5 samples of
+        // facies 0 from one well (too few for the area too: the zone pool)
+        let mut s = Vec::new();
+        for w in 0..4 {
+            for k in 0..10 {
+                s.push(sample(w, 0, 3000.0 + k as f64, 2900.0));
+            }
+        }
+        for _ in 0..10 {
+            s.push(sample(4, 1, 2500.0, 2900.0));
+        }
+        for _ in 0..5 {
+            s.push(sample(5, 0, 3200.0, 2900.0));
+        }
+        let slot: Vec<usize> = (0..s.len()).map(|i| usize::from(i >= 50)).collect();
+        let w = vec![1.0 / s.len() as f64; s.len()];
+        let pools = zone_area_pools(0, &s, &w, 2, &[Some(0), None], &slot);
+        assert_eq!(pools.len(), 4);
+        let src: Vec<PoolSource> = pools.iter().map(|p| p.source).collect();
+        assert_eq!(
+            src,
+            [
+                PoolSource::Region,
+                PoolSource::Area,
+                PoolSource::Zone,
+                PoolSource::Zone
+            ]
+        );
+        assert_eq!(pools[0].rows.len(), 40);
+        assert_eq!((pools[1].rows.len(), pools[1].wells), (50, 5));
+        assert_eq!((pools[2].rows.len(), pools[2].wells), (55, 6));
+        assert_eq!(pools[0].area, Some(Some(0)));
+        assert_eq!(pools[2].area, Some(None));
+        // offsets are relative to the whole zone: d = region mean - zone mean
+        let zone_mean = (40.0 * 3004.5 + 10.0 * 2500.0 + 5.0 * 3200.0) / 55.0;
+        assert!((pools[0].offset[0] - (3004.5 - zone_mean)).abs() < 1e-9);
+        assert!((pools[2].offset[0] - (3200.0 - zone_mean)).abs() < 1e-9);
+        // rest has no facies 1 sample: the facies' offset over the zone
+        assert!((pools[3].offset[0] - (2500.0 - zone_mean)).abs() < 1e-9);
+        // area weights renormalised to 1
+        let sw: f64 = pools[1].rows.iter().map(|r| r.1).sum();
+        assert!((sw - 1.0).abs() < 1e-12);
+        // streams: zones without areas keep zone * F + f, area regions follow
+        let mut all = zone_pools(1, &s, &w, 2);
+        all.splice(0..0, pools);
+        assign_streams(&mut all, 2, 2);
+        let st: Vec<u64> = all.iter().map(|p| p.stream).collect();
+        assert_eq!(st, [4, 5, 6, 7, 2, 3]);
+    }
+
+    #[test]
     fn region_streams_differ_and_repeat() {
         let a: Vec<u64> = (0..4).map(|_| region_rng(5, 0).gen::<u64>()).collect();
         assert!(a.iter().all(|x| *x == a[0]));
