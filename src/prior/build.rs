@@ -840,7 +840,8 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         }
         let points: Vec<[f64; 2]> = joint.iter().map(|s| s.xy).collect();
         let ws: Vec<usize> = joint.iter().map(|s| s.well).collect();
-        let weights = well_decluster_weights(&points, &ws)?;
+        let vp0: Vec<f64> = joint.iter().map(|s| s.values[0]).collect();
+        let weights = well_decluster_weights(&points, &ws, &vp0)?;
         let slot: Vec<usize> = joint
             .iter()
             .map(|s| {
@@ -1127,6 +1128,7 @@ fn prepare_facies(
     let spacing = g.inline_spacing.max(g.xline_spacing);
     for (zi, zf) in frame.zones.iter().enumerate() {
         let mut fs = Vec::new();
+        let mut fs_vp0 = Vec::new();
         for b in blocked.iter().filter(|b| b.zone == zi) {
             if let Some(s) = FaciesSample::from_blocked(
                 b,
@@ -1136,6 +1138,7 @@ fn prepare_facies(
                 study.wells[b.well].name(),
             )? {
                 fs.push(s);
+                fs_vp0.push(b.vp0.unwrap_or(f64::NAN));
             }
         }
         if fs.is_empty() {
@@ -1152,7 +1155,7 @@ fn prepare_facies(
             out.push(None);
             continue;
         }
-        let weights = decluster_weights(&fs)?;
+        let weights = decluster_weights(&fs, &fs_vp0)?;
         let proportions = weighted_proportions(&fs, Some(&weights))?;
         let vp0 = zps
             .iter()
@@ -1185,19 +1188,29 @@ fn prepare_facies(
     Ok(out)
 }
 
-/// Cell-declustering weights of facies samples (Deutsch 1989): every well first
-/// gets the same total weight shared by its samples, then the wells are
-/// declustered in plan with a cell as large as the median distance from a well
-/// to its nearest neighbour (the spacing of the sparse part of the pattern,
-/// common practice), averaged over 5 x 5 grid origins.
-pub(crate) fn decluster_weights(fs: &[FaciesSample]) -> Result<Vec<f64>> {
+/// Cell-declustering weights of facies samples, swept on their Vp0 (`vp0`, one
+/// per sample, NaN where missing); see [`well_decluster_weights`].
+pub(crate) fn decluster_weights(fs: &[FaciesSample], vp0: &[f64]) -> Result<Vec<f64>> {
     let points: Vec<[f64; 2]> = fs.iter().map(|f| [f.pos[0], f.pos[1]]).collect();
     let wells: Vec<usize> = fs.iter().map(|f| f.well as usize).collect();
-    well_decluster_weights(&points, &wells)
+    well_decluster_weights(&points, &wells, vp0)
 }
 
-/// [`decluster_weights`] of samples at map positions `points` (m) from wells `wells`.
-pub(crate) fn well_decluster_weights(points: &[[f64; 2]], wells: &[usize]) -> Result<Vec<f64>> {
+/// Cell-declustering weights (Deutsch 1989) of samples at map positions `points`
+/// (m) from wells `wells`: every well first gets the same total weight, shared
+/// by its samples, then the wells are declustered in plan, averaged over 5 x 5
+/// grid origins, with the cell size chosen by the usual sweep on the primary
+/// variable `values` (Vp0; NaN where missing, taken as the mean): 15 sizes from
+/// the smallest to half the largest distance between wells; the size that
+/// minimises the declustered mean when the wells are clustered in high values
+/// (the declustered mean at the median nearest-well spacing is below the naive
+/// mean), else the one that maximises it (GSLIB declus practice, Deutsch and
+/// Journel 1998).
+pub(crate) fn well_decluster_weights(
+    points: &[[f64; 2]],
+    wells: &[usize],
+    values: &[f64],
+) -> Result<Vec<f64>> {
     let n = points.len();
     if n == 0 {
         return Ok(Vec::new());
@@ -1237,7 +1250,34 @@ pub(crate) fn well_decluster_weights(points: &[[f64; 2]], wells: &[usize]) -> Re
         .collect();
     nn.sort_by(f64::total_cmp);
     let cell = nn[nn.len() / 2].max(1.0);
-    crate::geostat::decluster::well_weights(points, wells, cell, 5)
+    let finite: Vec<f64> = values.iter().copied().filter(|v| v.is_finite()).collect();
+    if finite.is_empty() || values.len() != points.len() {
+        return crate::geostat::decluster::well_weights(points, wells, cell, 5);
+    }
+    let mean = finite.iter().sum::<f64>() / finite.len() as f64;
+    let vals: Vec<f64> = values
+        .iter()
+        .map(|v| if v.is_finite() { *v } else { mean })
+        .collect();
+    let mut far = 0.0f64;
+    for (a, c) in centres.iter().enumerate() {
+        for d in &centres[a + 1..] {
+            far = far.max(((c[0] - d[0]).powi(2) + (c[1] - d[1]).powi(2)).sqrt());
+        }
+    }
+    let (lo, hi) = (nn[0].max(1.0), (far / 2.0).max(nn[0].max(1.0)));
+    let sizes = crate::geostat::decluster::size_range(lo, hi, 15)?;
+    let layout = crate::geostat::decluster::Layout::Wells { points, wells };
+    let at_median = crate::geostat::decluster::well_weights(points, wells, cell, 5)?;
+    let dmean: f64 = at_median.iter().zip(&vals).map(|(w, v)| w * v).sum::<f64>()
+        / at_median.iter().sum::<f64>();
+    let naive = vals.iter().sum::<f64>() / vals.len() as f64;
+    let criterion = if dmean < naive {
+        crate::geostat::decluster::SweepCriterion::MinimiseMean
+    } else {
+        crate::geostat::decluster::SweepCriterion::MaximiseMean
+    };
+    Ok(crate::geostat::decluster::sweep_layout(&layout, &vals, &sizes, 5, criterion)?.weights)
 }
 
 /// Facies probabilities and kriging-variance ratio at fractional layer position
