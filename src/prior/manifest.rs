@@ -168,6 +168,9 @@ pub struct Manifest {
     pub volumes: Vec<ManifestVolume>,
     /// Sample banks, one per region (zone, facies).
     pub banks: Vec<ManifestBank>,
+    /// Lateral areas that split zones into bank regions (`[[areas]]`; zone
+    /// indices as in `zones`, polygons in world m, boxes in line numbers).
+    pub areas: Vec<crate::project::AreaDef>,
     /// Seed.
     pub seed: u64,
     /// Fill outside every zone.
@@ -223,6 +226,7 @@ impl Manifest {
                 .collect(),
             volumes: Vec::new(),
             banks: Vec::new(),
+            areas: project.areas.clone(),
             seed: project.seed,
             outside_zones: outside,
             files: Vec::new(),
