@@ -2,7 +2,7 @@
 
 use anyhow::Context;
 use clap::{Parser, Subcommand, ValueEnum};
-use std::io::IsTerminal;
+use std::io::{IsTerminal, Write};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -21,12 +21,8 @@ enum Command {
     Check {
         /// The project file (TOML).
         project: PathBuf,
-        /// Print the summary as JSON on standard output.
-        #[arg(long)]
-        json: bool,
-        /// Print nothing but errors (the exit status tells the result).
-        #[arg(long, short, conflicts_with = "json")]
-        quiet: bool,
+        #[command(flatten)]
+        output: Output,
     },
     /// Build the prior: mean and standard-deviation volumes of Vp0, epsilon and
     /// delta by kriging in stratigraphic coordinates, a zone volume and manifest.json.
@@ -39,12 +35,8 @@ enum Command {
         /// Worker threads (default: all cores). Results are identical for any count.
         #[arg(long)]
         threads: Option<usize>,
-        /// Print the summary as JSON.
-        #[arg(long)]
-        json: bool,
-        /// Print nothing but errors.
-        #[arg(long, short, conflicts_with = "json")]
-        quiet: bool,
+        #[command(flatten)]
+        output: Output,
     },
     /// Experimental variograms and fitted models per zone and property (JSON,
     /// SVG plots), printed in project-file syntax.
@@ -54,12 +46,8 @@ enum Command {
         /// Folder to write into.
         #[arg(long)]
         out: PathBuf,
-        /// Print the summary as JSON.
-        #[arg(long)]
-        json: bool,
-        /// Print nothing but errors.
-        #[arg(long, short, conflicts_with = "json")]
-        quiet: bool,
+        #[command(flatten)]
+        output: Output,
     },
     /// Condition the wells (Vp0, epsilon, delta, zone, stratigraphic coordinate,
     /// facies per sample) and write each as LAS 2.0.
@@ -69,12 +57,8 @@ enum Command {
         /// Folder to write the LAS files into.
         #[arg(long)]
         out: PathBuf,
-        /// Print the summary as JSON.
-        #[arg(long)]
-        json: bool,
-        /// Print nothing but errors.
-        #[arg(long, short, conflicts_with = "json")]
-        quiet: bool,
+        #[command(flatten)]
+        output: Output,
     },
     /// Show what the tool reads from one input file.
     Inspect {
@@ -99,6 +83,33 @@ enum Command {
         #[arg(long, short)]
         quiet: bool,
     },
+}
+
+/// How a command reports: text, JSON or nothing.
+#[derive(clap::Args, Debug, Clone, Copy)]
+struct Output {
+    /// Print the summary as JSON on standard output.
+    #[arg(long)]
+    json: bool,
+    /// Print nothing but errors (the exit status tells the result).
+    #[arg(long, short, conflicts_with = "json")]
+    quiet: bool,
+}
+
+impl Output {
+    /// Progress bars only on a terminal, and not when output is scripted.
+    fn progress(self) -> bool {
+        !self.quiet && !self.json && std::io::stderr().is_terminal()
+    }
+
+    /// Print a command's report: JSON, nothing, or its text rendering.
+    fn emit<T: serde::Serialize>(
+        self,
+        report: &T,
+        text: impl FnOnce() -> String,
+    ) -> anyhow::Result<()> {
+        emit(report, self.json, self.quiet, text)
+    }
 }
 
 #[derive(Debug, Clone, Copy, ValueEnum)]
@@ -127,23 +138,18 @@ impl From<KindArg> for stratiprior::inspect::FileKind {
 
 fn run(cli: Cli) -> anyhow::Result<()> {
     match cli.command {
-        Command::Check {
-            project,
-            json,
-            quiet,
-        } => {
-            let progress = show_progress(json, quiet);
+        Command::Check { project, output } => {
+            let progress = output.progress();
             let report = stratiprior::check::run(&project, progress)?;
-            emit(&report, json, quiet, || report.render_text())?;
+            output.emit(&report, || report.render_text())?;
         }
         Command::Build {
             project,
             out,
             threads,
-            json,
-            quiet,
+            output,
         } => {
-            let progress = show_progress(json, quiet);
+            let progress = output.progress();
             let report = stratiprior::prior::build::build(
                 &project,
                 &stratiprior::prior::build::BuildOptions {
@@ -152,27 +158,25 @@ fn run(cli: Cli) -> anyhow::Result<()> {
                     progress,
                 },
             )?;
-            emit(&report, json, quiet, || report.render_text())?;
+            output.emit(&report, || report.render_text())?;
         }
         Command::Variogram {
             project,
             out,
-            json,
-            quiet,
+            output,
         } => {
-            let progress = show_progress(json, quiet);
+            let progress = output.progress();
             let report = stratiprior::commands::variogram::run(&project, &out, progress)?;
-            emit(&report, json, quiet, || report.render_text())?;
+            output.emit(&report, || report.render_text())?;
         }
         Command::Condition {
             project,
             out,
-            json,
-            quiet,
+            output,
         } => {
-            let progress = show_progress(json, quiet);
+            let progress = output.progress();
             let report = stratiprior::commands::condition::run(&project, &out, progress)?;
-            emit(&report, json, quiet, || report.render_text())?;
+            output.emit(&report, || report.render_text())?;
         }
         Command::Inspect { file, kind, json } => {
             let ins = stratiprior::inspect::inspect(&file, kind.map(Into::into), json)?;
@@ -184,17 +188,10 @@ fn run(cli: Cli) -> anyhow::Result<()> {
                 seed,
             })
             .with_context(|| format!("writing the demo basin into {}", out.display()))?;
-            if !quiet {
-                println!("{}", serde_json::to_string_pretty(&report)?);
-            }
+            emit(&report, true, quiet, String::new)?;
         }
     }
     Ok(())
-}
-
-/// Progress bars only on a terminal, and not when output is scripted.
-fn show_progress(json: bool, quiet: bool) -> bool {
-    !quiet && !json && std::io::stderr().is_terminal()
 }
 
 /// Print a command's report: JSON, nothing, or its text rendering.
@@ -204,12 +201,23 @@ fn emit<T: serde::Serialize>(
     quiet: bool,
     text: impl FnOnce() -> String,
 ) -> anyhow::Result<()> {
-    if json {
-        println!("{}", serde_json::to_string_pretty(report)?);
-    } else if !quiet {
-        print!("{}", text());
+    if quiet {
+        return Ok(());
     }
-    Ok(())
+    let out = if json {
+        serde_json::to_string_pretty(report)? + "\n"
+    } else {
+        text()
+    };
+    let mut stdout = std::io::stdout().lock();
+    match stdout
+        .write_all(out.as_bytes())
+        .and_then(|_| stdout.flush())
+    {
+        // a reader that stops early (`| head`) is not an error of ours
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
+        r => Ok(r?),
+    }
 }
 
 fn main() -> ExitCode {

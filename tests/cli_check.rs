@@ -383,3 +383,23 @@ fn bad_prior_settings_are_named() {
         assert_fails_with(&check(d.path()), &[key, what]);
     }
 }
+
+#[test]
+fn a_reader_that_stops_early_is_no_panic() {
+    // `stratiprior check --json demo.toml | head -1`: the pipe closes early.
+    let mut child = Command::new(env!("CARGO_BIN_EXE_stratiprior"))
+        .args([
+            "check",
+            "--json",
+            root().join("demo.toml").to_str().unwrap(),
+        ])
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    let e = String::from_utf8_lossy(&o.stderr);
+    assert!(!e.contains("panicked"), "{e}");
+    assert_eq!(o.status.code(), Some(0), "{e}");
+}
