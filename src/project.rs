@@ -200,6 +200,7 @@ struct RawVolumes {
     facies: Option<RawVolume>,
     #[serde(default)]
     facies_probability: BTreeMap<String, PathBuf>,
+    blend_facies_with_wells: Option<bool>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -445,6 +446,9 @@ pub struct VolumeDefs {
     pub facies: Option<VolumeDef>,
     /// Per-facies probability volumes, by facies name.
     pub facies_probability: BTreeMap<String, PathBuf>,
+    /// Whether facies probabilities from volumes are blended with indicator
+    /// kriging of the wells near wells (default true); false uses the volumes alone.
+    pub blend_facies_with_wells: bool,
 }
 
 /// Where Vp0, epsilon and delta of a log sample come from.
@@ -1260,6 +1264,7 @@ impl Project {
                 background_vp0,
                 facies: facies_vol,
                 facies_probability,
+                blend_facies_with_wells: v.blend_facies_with_wells.unwrap_or(true),
             },
             conditioning,
             kriging,

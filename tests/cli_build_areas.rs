@@ -40,7 +40,7 @@ fn areas_split_the_regions_of_one_zone_and_leave_the_others_alone() {
     // the copy lives elsewhere: point its inputs at the demo files
     let text = text.replace("= \"demo_", &format!("= \"{}/demo_", root().display()));
     let text = format!(
-        "{text}\n[[areas]]\nname = \"west\"\nzones = [\"Pellarin\"]\nbox = {{ inlines = [1201, 1226], xlines = [3101, 3171] }}\n"
+        "{text}\n[[areas]]\nname = \"west\"\nzones = [\"Pellarin\"]\nbox = {{ inlines = [1201, 1226], xlines = [3101, 3171] }}\n[volumes]\nblend_facies_with_wells = false\n"
     );
     let pf = d.path().join("areas.toml");
     fs::write(&pf, text).unwrap();
@@ -74,6 +74,15 @@ fn areas_split_the_regions_of_one_zone_and_leave_the_others_alone() {
         read_volume_on_grid(&out.join(v["path"].as_str().unwrap()), g).unwrap()
     };
     let zone = vol("zone");
+    // blend_facies_with_wells = false: inside zones the facies come from the
+    // facies-label volume alone (probability 1 on its code)
+    let labels = read_volume_on_grid(&root().join("demo_volumes/facies.sgy"), g).unwrap();
+    let most_likely = vol("facies");
+    for k in 0..zone.len() {
+        if zone[k] >= 0.0 {
+            assert_eq!(most_likely[k], labels[k], "cell {k}");
+        }
+    }
     // vertical wells (no survey in the well table) stand at their table (x, y)
     let table = fs::read_to_string(root().join("demo_wells/wells.csv")).unwrap();
     let vertical: Vec<Option<(f64, f64)>> = table

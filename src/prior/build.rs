@@ -727,6 +727,14 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                             nk,
                         );
                         let cell_index = g.trace_index(i, j) * nz + k;
+                        // without blending, the volume's probabilities are used alone
+                        let ratio_of = |r: f64| {
+                            if p.volumes.blend_facies_with_wells {
+                                r
+                            } else {
+                                1.0
+                            }
+                        };
                         let blended = match (probs, label_volume, use_prob_volumes) {
                             (Ok((pk, ratio)), _, true) => {
                                 let pv: Vec<f64> = prob_volumes
@@ -737,7 +745,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                                     })
                                     .collect();
                                 volume_probabilities(&pv).and_then(|pv| match pv {
-                                    Some(pv) => blend_with_volume(&pk, ratio, &pv),
+                                    Some(pv) => blend_with_volume(&pk, ratio_of(ratio), &pv),
                                     None => Ok(pk),
                                 })
                             }
@@ -745,7 +753,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                                 let code = lv.data.get(cell_index).copied().unwrap_or(f32::NAN);
                                 label_probabilities(f64::from(code), &codes, 1.0).and_then(|pv| {
                                     match pv {
-                                        Some(pv) => blend_with_volume(&pk, ratio, &pv),
+                                        Some(pv) => blend_with_volume(&pk, ratio_of(ratio), &pv),
                                         None => Ok(pk),
                                     }
                                 })
@@ -956,13 +964,19 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     .zip(s.proportions())
                     .map(|(f, q)| (f.name.clone(), *q))
                     .collect(),
-                source: match (use_prob_volumes, label_volume.is_some()) {
-                    (true, _) => {
+                source: match (
+                    use_prob_volumes,
+                    label_volume.is_some(),
+                    p.volumes.blend_facies_with_wells,
+                ) {
+                    (true, _, true) => {
                         "indicator kriging blended with the facies probability volumes".into()
                     }
-                    (false, true) => {
+                    (true, _, false) => "the facies probability volumes alone".into(),
+                    (false, true, true) => {
                         "indicator kriging blended with the facies-label volume".into()
                     }
+                    (false, true, false) => "the facies-label volume alone".into(),
                     _ => "indicator kriging of the well facies".into(),
                 },
             })
