@@ -101,14 +101,17 @@ pub struct RegionPool {
     pub own_wells: usize,
     /// Wells contributing to `rows`.
     pub wells: usize,
-    /// `true`: a larger pool is borrowed.
-    pub borrowed: bool,
     /// Whose samples `rows` holds.
     pub source: PoolSource,
     /// Generator stream of the region's bank (see [`assign_streams`]).
     pub stream: u64,
-    /// Samples of the pool borrowed from (`rows.len()`).
-    pub pool_samples: usize,
+}
+
+impl RegionPool {
+    /// Whether a larger pool (area or zone) is borrowed.
+    pub fn borrowed(&self) -> bool {
+        self.source != PoolSource::Region
+    }
 }
 
 /// What was drawn for one region.
@@ -287,12 +290,10 @@ pub fn zone_area_pools(
                 area: has_areas.then_some(*area),
                 facies: f,
                 offset: offset_of(ai, f),
-                pool_samples: rows.len(),
                 rows,
                 own_samples: own.len(),
                 own_wells,
                 wells,
-                borrowed: source != PoolSource::Region,
                 source,
                 stream: 0,
             });
@@ -666,7 +667,7 @@ mod tests {
         assert!((pools[1].offset[0] - (2500.0 - zone_mean)).abs() < 1e-9);
         assert_eq!(pools[2].offset, [0.0; 3]);
         // facies 0 has its own pool: residual v - (loo + d_0), weights renormalised
-        assert!(!pools[0].borrowed);
+        assert!(!pools[0].borrowed());
         assert_eq!(pools[0].rows.len(), 40);
         let sw: f64 = pools[0].rows.iter().map(|r| r.1).sum();
         assert!((sw - 1.0).abs() < 1e-12);
@@ -674,7 +675,7 @@ mod tests {
         assert!((r0 - (3000.0 - (2900.0 + pools[0].offset[0]))).abs() < 1e-9);
         // facies 1 (1 well, 10 samples) and 2 (none) borrow the zone pool
         for p in &pools[1..] {
-            assert!(p.borrowed);
+            assert!(p.borrowed());
             assert_eq!(p.rows.len(), 50);
             assert_eq!(p.wells, 5);
         }

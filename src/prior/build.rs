@@ -907,7 +907,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         let entry = write_region(
             &bank_dir, &out, pool, rows, mass, zname, area, facies, p.seed,
         )?;
-        if pool.borrowed {
+        if pool.borrowed() {
             let whose = match pool.source {
                 PoolSource::Area => {
                     format!("the residual pool of the whole area ({zone_area}, every facies)")
