@@ -1316,16 +1316,7 @@ fn facies_at(
     if col.is_empty() || c.is_empty() {
         return est.estimate(&Target::at([xy.0, xy.1, s]));
     }
-    let first = col[0].0 as f64;
-    let last = col[col.len() - 1].0 as f64;
-    let (a, b, f) = if u <= first {
-        (0, 0, 0.0)
-    } else if u >= last {
-        (col.len() - 1, col.len() - 1, 0.0)
-    } else {
-        let k = ((u - first).floor() as usize).min(col.len() - 2);
-        (k, k + 1, u - col[k].0 as f64)
-    };
+    let (a, b, f) = layer_bracket(col, u);
     let (pa, pb) = (c.target(a), c.target(b));
     let p = pa.iter().zip(pb).map(|(x, y)| x + f * (y - x)).collect();
     let r = c.variance_ratio[a] + f * (c.variance_ratio[b] - c.variance_ratio[a]);
@@ -1336,19 +1327,27 @@ fn facies_at(
 /// (`u = s / h - 0.5`, so layer centre `l` is at `u = l`) between the layer
 /// centres present in a column; nearest centre beyond the ends.
 fn interpolate_layers(col: &[(usize, f64)], est: &[(f64, f64)], u: f64) -> (f64, f64) {
+    let (k0, k1, f) = layer_bracket(col, u);
+    let (a, b) = (est[k0], est[k1]);
+    (a.0 + f * (b.0 - a.0), a.1 + f * (b.1 - a.1))
+}
+
+/// The two layer centres of a column (non-empty, contiguous layers) around
+/// fractional layer position `u`, as indices into the column, and the weight of
+/// the second: `value = (1 - f) * v[k0] + f * v[k1]`; the nearest centre
+/// (f = 0) beyond the first and last.
+fn layer_bracket(col: &[(usize, f64)], u: f64) -> (usize, usize, f64) {
     let first = col[0].0 as f64;
     let last = col[col.len() - 1].0 as f64;
     if u <= first {
-        return est[0];
+        return (0, 0, 0.0);
     }
     if u >= last {
-        return est[est.len() - 1];
+        return (col.len() - 1, col.len() - 1, 0.0);
     }
     // layers present are contiguous: index = layer - first
     let k = ((u - first).floor() as usize).min(col.len() - 2);
-    let f = u - col[k].0 as f64;
-    let (a, b) = (est[k], est[k + 1]);
-    (a.0 + f * (b.0 - a.0), a.1 + f * (b.1 - a.1))
+    (k, k + 1, u - col[k].0 as f64)
 }
 
 fn relative(base: &Path, p: &Path) -> String {
