@@ -6,10 +6,14 @@
 //!   between two samples, coverage of central intervals, and the weighted mean,
 //!   variance and quantiles they rest on.
 //!
+//! * [`records`]: the plain records of a leave-one-well-out validation (score
+//!   rows, predictions along held-out wells) shared by `validate` and the report.
+//!
 //! All inputs and results are f64 in the unit of the property scored (m/s for
 //! Vp0, dimensionless for epsilon and delta); bad input is an error, never a
 //! panic.
 
+pub mod records;
 pub mod scores;
 
 pub use scores::{
