@@ -73,6 +73,10 @@ pub struct Horizon {
     /// The final surface (gridded, tied, in stratigraphic order).
     #[serde(skip)]
     pub surface: Surface,
+    /// The gridded surface before the tie and the order (kept so that a frame
+    /// can be re-made without some well's tops, [`Study::without_well_tops`]).
+    #[serde(skip)]
+    pub gridded: Surface,
     /// How the picks were gridded.
     pub gridding: GriddingReport,
     /// The tie to the well tops, if the horizon has tops.
@@ -127,6 +131,94 @@ impl Study {
         let surfaces: Vec<&Surface> = self.horizons.iter().map(|h| &h.surface).collect();
         crate::frame::strat::StratFrame::new(&self.project.zones, &surfaces)
     }
+
+    /// The study with its horizons re-tied to the tops of every well but well
+    /// `well` (index in [`Study::wells`]) and put in stratigraphic order again,
+    /// from the same gridded surfaces: the frame a leave-one-well-out
+    /// validation predicts that well in. The well itself stays in the study
+    /// (so its logs can be conditioned in this frame); callers leave its
+    /// samples out of the kriging data. Warnings of the re-tie are added to the
+    /// copy's `warnings`.
+    pub fn without_well_tops(&self, well: usize) -> Result<Study> {
+        if well >= self.wells.len() {
+            return Err(Error::inconsistent(format!(
+                "no well number {} in a study of {} wells",
+                well + 1,
+                self.wells.len()
+            )));
+        }
+        let mut horizons = self.horizons.clone();
+        let mut warnings = Vec::new();
+        let crossings = tie_and_order(
+            &self.project,
+            &self.wells,
+            &mut horizons,
+            Some(well),
+            &mut warnings,
+        )?;
+        let mut out = Study {
+            project: self.project.clone(),
+            wells: self.wells.clone(),
+            horizons,
+            crossings,
+            volumes: self.volumes.clone(),
+            warnings: self.warnings.clone(),
+        };
+        out.warnings.extend(warnings);
+        Ok(out)
+    }
+}
+
+/// Tie every horizon's gridded surface to the tops of `wells` (all but well
+/// `exclude`), put the tied surfaces in stratigraphic order (clipping
+/// crossings, [`enforce_order`]) and store them as the horizons' final
+/// surfaces; the tie reports replace the horizons' old ones. Errors when a
+/// horizon lies above the next one over more than half the map (the order
+/// looks wrong).
+fn tie_and_order(
+    project: &Project,
+    wells: &[Well],
+    horizons: &mut [Horizon],
+    exclude: Option<usize>,
+    warnings: &mut Vec<String>,
+) -> Result<Vec<CrossingReport>> {
+    let grid = &project.grid;
+    for (hi, h) in horizons.iter_mut().enumerate() {
+        let ties: Vec<TiePoint> = wells
+            .iter()
+            .enumerate()
+            .filter(|(wi, _)| Some(*wi) != exclude)
+            .flat_map(|(_, w)| {
+                w.tops.iter().filter(|t| t.horizon == hi).map(|t| TiePoint {
+                    well: w.entry.name.clone(),
+                    x: t.point.x,
+                    y: t.point.y,
+                    z: t.point.z,
+                })
+            })
+            .collect();
+        let mut surface = h.gridded.clone();
+        h.tie = if ties.is_empty() {
+            warnings.push(format!("horizon {}: no well tops, not tied", h.def.name));
+            None
+        } else {
+            Some(tie_surface(&mut surface, grid, &ties, project.tie_radius)?)
+        };
+        h.surface = surface;
+    }
+    let mut surfaces: Vec<Surface> = horizons.iter().map(|h| h.surface.clone()).collect();
+    let crossings = enforce_order(&mut surfaces, grid);
+    let nodes = grid.trace_count();
+    if let Some(c) = crossings.iter().find(|c| 2 * c.nodes_clipped > nodes) {
+        return Err(Error::inconsistent(format!(
+            "horizon {} lies above horizon {} at {} of {} map nodes (by up to {:.1} m): the [[horizons]] order (shallow to deep) looks wrong",
+            c.lower, c.upper, c.nodes_clipped, nodes, c.max_overlap
+        )));
+    }
+    for (h, s) in horizons.iter_mut().zip(surfaces) {
+        h.surface = s;
+    }
+    Ok(crossings)
 }
 
 /// Read one well's LAS and survey, map its curves and position its samples.
@@ -312,48 +404,21 @@ pub fn load(project_path: &Path, progress: bool) -> Result<Study> {
 
     // horizons
     let mut horizons = Vec::with_capacity(project.horizons.len());
-    for (hi, def) in project.horizons.iter().enumerate() {
+    for def in &project.horizons {
         pb.set_message(format!("horizon {}", def.name));
         let picks = read_picks(&def.picks, def.z_is_elevation)?;
         warnings.extend(picks.warnings.iter().cloned());
-        let (mut surface, gridding) = grid_picks(&def.name, &picks, grid)?;
-        let ties: Vec<TiePoint> = wells
-            .iter()
-            .flat_map(|w| {
-                w.tops.iter().filter(|t| t.horizon == hi).map(|t| TiePoint {
-                    well: w.entry.name.clone(),
-                    x: t.point.x,
-                    y: t.point.y,
-                    z: t.point.z,
-                })
-            })
-            .collect();
-        let tie = if ties.is_empty() {
-            warnings.push(format!("horizon {}: no well tops, not tied", def.name));
-            None
-        } else {
-            Some(tie_surface(&mut surface, grid, &ties, project.tie_radius)?)
-        };
+        let (surface, gridding) = grid_picks(&def.name, &picks, grid)?;
         horizons.push(Horizon {
             def: def.clone(),
-            surface,
+            surface: surface.clone(),
+            gridded: surface,
             gridding,
-            tie,
+            tie: None,
         });
         pb.inc(1);
     }
-    let mut surfaces: Vec<Surface> = horizons.iter().map(|h| h.surface.clone()).collect();
-    let crossings = enforce_order(&mut surfaces, grid);
-    let nodes = grid.trace_count();
-    if let Some(c) = crossings.iter().find(|c| 2 * c.nodes_clipped > nodes) {
-        return Err(Error::inconsistent(format!(
-            "horizon {} lies above horizon {} at {} of {} map nodes (by up to {:.1} m): the [[horizons]] order (shallow to deep) looks wrong",
-            c.lower, c.upper, c.nodes_clipped, nodes, c.max_overlap
-        )));
-    }
-    for (h, s) in horizons.iter_mut().zip(surfaces) {
-        h.surface = s;
-    }
+    let crossings = tie_and_order(&project, &wells, &mut horizons, None, &mut warnings)?;
     pb.inc(1);
 
     // volumes
