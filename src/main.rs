@@ -38,6 +38,23 @@ enum Command {
         #[command(flatten)]
         output: Output,
     },
+    /// Leave-one-well-out validation: rebuild the prior without each well in
+    /// turn, predict along it and score against baselines (validation.csv/json).
+    Validate {
+        /// The project file (TOML).
+        project: PathBuf,
+        /// Folder to write into.
+        #[arg(long)]
+        out: PathBuf,
+        /// Worker threads (default: all cores). Results are identical for any count.
+        #[arg(long)]
+        threads: Option<usize>,
+        /// Refit the variograms without each held-out well (default: the full-data models).
+        #[arg(long)]
+        refit_variograms: bool,
+        #[command(flatten)]
+        output: Output,
+    },
     /// Experimental variograms and fitted models per zone and property (JSON,
     /// SVG plots), printed in project-file syntax.
     Variogram {
@@ -159,6 +176,26 @@ fn run(cli: Cli) -> anyhow::Result<()> {
                 },
             )?;
             output.emit(&report, || report.render_text())?;
+        }
+        Command::Validate {
+            project,
+            out,
+            threads,
+            refit_variograms,
+            output,
+        } => {
+            let progress = output.progress();
+            let report = stratiprior::validation::loo::validate(
+                &project,
+                &stratiprior::validation::loo::ValidateOptions {
+                    out,
+                    threads,
+                    progress,
+                    refit_variograms,
+                },
+            )?;
+            let pooled: Vec<_> = report.rows.iter().filter(|r| r.well == "all").collect();
+            output.emit(&pooled, || report.render_text())?;
         }
         Command::Variogram {
             project,

@@ -141,17 +141,18 @@ pub struct BuildReport {
 /// major), cells inside and outside zones, clipped cells per zone and property.
 type TraceResult = (Vec<f32>, u64, u64, Vec<u64>);
 
-struct ZoneProperty {
-    zone: usize,
-    prop: usize,
-    model: VariogramModel,
-    samples: SampleSet,
-    kind: KrigingKind,
-    method: KrigingMethod,
-    drift: Option<Drift>,
-    trend: Option<(f64, f64)>,
-    mean: f64,
-    report: ZonePropertyReport,
+/// The kriging data, variogram and settings of one zone and property.
+pub(crate) struct ZoneProperty {
+    pub(crate) zone: usize,
+    pub(crate) prop: usize,
+    pub(crate) model: VariogramModel,
+    pub(crate) samples: SampleSet,
+    pub(crate) kind: KrigingKind,
+    pub(crate) method: KrigingMethod,
+    pub(crate) drift: Option<Drift>,
+    pub(crate) trend: Option<(f64, f64)>,
+    pub(crate) mean: f64,
+    pub(crate) report: ZonePropertyReport,
 }
 
 impl ZoneProperty {
@@ -173,6 +174,12 @@ impl ZoneProperty {
             }
             None => None,
         };
+        self.target_with(pos, sec)
+    }
+
+    /// The kriging target at `pos` = (x, y, s) where the secondary variable
+    /// (depth or background Vp0) is `sec`: as for the kriging data.
+    pub(crate) fn target_with(&self, pos: [f64; 3], sec: Option<f64>) -> Target {
         Target {
             pos,
             drift: if self.method == KrigingMethod::ExternalDrift {
@@ -188,7 +195,8 @@ impl ZoneProperty {
     }
 }
 
-fn value_of(b: &BlockedSample, prop: usize) -> Option<f64> {
+/// The value of property `prop` (0 vp0, 1 epsilon, 2 delta) of a blocked sample.
+pub(crate) fn value_of(b: &BlockedSample, prop: usize) -> Option<f64> {
     match prop {
         0 => b.vp0,
         1 => b.epsilon,
@@ -247,6 +255,46 @@ fn prepare(
     study: &Study,
     frame: &StratFrame,
     blocked: &[&BlockedSample],
+    warnings: &mut Vec<String>,
+) -> Result<Vec<ZoneProperty>> {
+    prepare_with_models(study, frame, blocked, None, warnings)
+}
+
+/// The secondary variable of drift `drift` at world (x, y, z): the depth, or
+/// the background Vp0 volume there (`None` outside it), as [`prepare`] takes it
+/// at the kriging data.
+pub(crate) fn secondary_at(
+    study: &Study,
+    drift: Option<Drift>,
+    x: f64,
+    y: f64,
+    z: f64,
+) -> Option<f64> {
+    let background = study.volumes.iter().find(|v| v.role == "background_vp0");
+    match drift? {
+        Drift::Depth => Some(z),
+        Drift::BackgroundVp0 => sample_volume(&study.project.grid, &background?.data, x, y, z),
+    }
+}
+
+/// The neighbourhood of the project's kriging settings.
+pub(crate) fn neighbourhood_params(p: &crate::project::Project) -> NeighbourhoodParams {
+    NeighbourhoodParams::per_well(
+        p.kriging.per_well,
+        p.kriging.max_wells,
+        p.kriging.neighbours,
+        p.kriging.search_radius,
+    )
+}
+
+/// [`prepare`], with the variogram models given (`fixed`, one per zone and
+/// property in the order `prepare` returns them) instead of fitted or taken
+/// from the project: leave-one-well-out validation keeps the full-data models.
+pub(crate) fn prepare_with_models(
+    study: &Study,
+    frame: &StratFrame,
+    blocked: &[&BlockedSample],
+    fixed: Option<&[VariogramModel]>,
     warnings: &mut Vec<String>,
 ) -> Result<Vec<ZoneProperty>> {
     let p = &study.project;
@@ -359,16 +407,31 @@ fn prepare(
                     .collect(),
                 (false, None) => samples.iter().map(|s| s.value - mean).collect(),
             };
-            let (model, record) = zone_property_variogram(
-                study,
-                frame,
-                zi,
-                pname,
-                &samples,
-                &residuals,
-                (pi == 0).then_some(background).flatten(),
-                vp0_horizontal,
-            )?;
+            let (model, record) = match fixed.and_then(|f| f.get(zps.len())) {
+                Some(m) => (
+                    m.clone(),
+                    VariogramRecord {
+                        zone: zdef.name.clone(),
+                        property: pname.to_string(),
+                        source: "given (full-data model)".into(),
+                        model: m.clone(),
+                        toml: m.to_toml_entry(&format!("variograms.{}.{pname}", zdef.name)),
+                        experimental: Vec::new(),
+                        fit: None,
+                        warnings: Vec::new(),
+                    },
+                ),
+                None => zone_property_variogram(
+                    study,
+                    frame,
+                    zi,
+                    pname,
+                    &samples,
+                    &residuals,
+                    (pi == 0).then_some(background).flatten(),
+                    vp0_horizontal,
+                )?,
+            };
             if pi == 0 {
                 vp0_horizontal = model
                     .search_structure()
@@ -820,32 +883,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         if area_slots.is_empty() || rest_has_nodes {
             area_slots.push(None);
         }
-        let mut joint = Vec::new();
-        for b in blocked.iter().filter(|b| b.zone == zi) {
-            let (Some(v0), Some(v1), Some(v2)) = (b.vp0, b.epsilon, b.delta) else {
-                continue;
-            };
-            let facies = if nk > 0 {
-                match b.facies.and_then(|c| codes.iter().position(|x| *x == c)) {
-                    Some(f) => Some(f),
-                    None => continue,
-                }
-            } else {
-                None
-            };
-            let key = (b.well as u32, b.layer as i32);
-            let mut m = [0.0; 3];
-            for (q, zp) in zps.iter().enumerate().filter(|(_, zp)| zp.zone == zi) {
-                m[zp.prop] = loo[q].get(&key).copied().unwrap_or(zp.mean);
-            }
-            joint.push(JointSample {
-                well: b.well,
-                facies,
-                xy: [b.x, b.y],
-                values: [v0, v1, v2],
-                loo: m,
-            });
-        }
+        let joint = joint_samples(&blocked, zi, &zps, &loo, &codes);
         let points: Vec<[f64; 2]> = joint.iter().map(|s| s.xy).collect();
         let ws: Vec<usize> = joint.iter().map(|s| s.well).collect();
         let vp0: Vec<f64> = joint.iter().map(|s| s.values[0]).collect();
@@ -1060,7 +1098,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
 /// practice). Where no other well is in reach the zone mean (or the trend of
 /// simple kriging with a trend) stands in; epsilon and delta are clipped to the
 /// project bounds as the mean volumes are.
-fn loo_means(
+pub(crate) fn loo_means(
     zp: &ZoneProperty,
     params: NeighbourhoodParams,
     p: &crate::project::Project,
@@ -1117,6 +1155,47 @@ fn loo_means(
         out.extend(r?);
     }
     Ok(out)
+}
+
+/// The blocked samples of zone `zi` with all three properties (and a facies
+/// among `codes` when the project has facies) with their leave-one-well-out
+/// kriged means (`loo`, one map per entry of `zps`): the members of the
+/// residual pools of the banks.
+pub(crate) fn joint_samples(
+    blocked: &[&BlockedSample],
+    zi: usize,
+    zps: &[ZoneProperty],
+    loo: &[BTreeMap<(u32, i32), f64>],
+    codes: &[i32],
+) -> Vec<JointSample> {
+    let nk = codes.len();
+    let mut joint = Vec::new();
+    for b in blocked.iter().filter(|b| b.zone == zi) {
+        let (Some(v0), Some(v1), Some(v2)) = (b.vp0, b.epsilon, b.delta) else {
+            continue;
+        };
+        let facies = if nk > 0 {
+            match b.facies.and_then(|c| codes.iter().position(|x| *x == c)) {
+                Some(f) => Some(f),
+                None => continue,
+            }
+        } else {
+            None
+        };
+        let key = (b.well as u32, b.layer as i32);
+        let mut m = [0.0; 3];
+        for (q, zp) in zps.iter().enumerate().filter(|(_, zp)| zp.zone == zi) {
+            m[zp.prop] = loo[q].get(&key).copied().unwrap_or(zp.mean);
+        }
+        joint.push(JointSample {
+            well: b.well,
+            facies,
+            xy: [b.x, b.y],
+            values: [v0, v1, v2],
+            loo: m,
+        });
+    }
+    joint
 }
 
 /// Indicator-kriging setups of every zone (None for zones without facies data

@@ -13,6 +13,7 @@
 //! Vp0, dimensionless for epsilon and delta); bad input is an error, never a
 //! panic.
 
+pub mod loo;
 pub mod records;
 pub mod scores;
 
