@@ -223,15 +223,25 @@ fn depth_trend(points: &[(f64, f64)]) -> Option<(f64, f64)> {
 
 /// Run a build of the project at `project`.
 pub fn build(project: &Path, opts: &BuildOptions) -> Result<BuildReport> {
-    match opts.threads {
-        Some(n) => {
-            let pool = rayon::ThreadPoolBuilder::new()
-                .num_threads(n.max(1))
-                .build()
-                .map_err(|e| Error::inconsistent(format!("cannot start {n} threads: {e}")))?;
-            pool.install(|| build_inner(project, opts))
-        }
-        None => build_inner(project, opts),
+    with_threads(opts.threads, || build_inner(project, opts))
+}
+
+/// Run `f` on a rayon pool of `threads` workers (rayon's global pool when
+/// `None`); results depend only on the thread count, not on scheduling.
+pub(crate) fn with_threads<T>(
+    threads: Option<usize>,
+    f: impl FnOnce() -> Result<T> + Send,
+) -> Result<T>
+where
+    T: Send,
+{
+    match threads {
+        Some(n) => rayon::ThreadPoolBuilder::new()
+            .num_threads(n.max(1))
+            .build()
+            .map_err(|e| Error::inconsistent(format!("cannot start {n} threads: {e}")))?
+            .install(f),
+        None => f(),
     }
 }
 

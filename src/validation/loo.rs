@@ -108,14 +108,7 @@ type WellResult = (Vec<Pred>, Option<WellPrediction>, Vec<String>);
 
 /// Run a leave-one-well-out validation of the project at `project`.
 pub fn validate(project: &Path, opts: &ValidateOptions) -> Result<ValidationReport> {
-    match opts.threads {
-        Some(n) => rayon::ThreadPoolBuilder::new()
-            .num_threads(n.max(1))
-            .build()
-            .map_err(|e| Error::inconsistent(format!("cannot start {n} threads: {e}")))?
-            .install(|| validate_inner(project, opts)),
-        None => validate_inner(project, opts),
-    }
+    crate::prior::build::with_threads(opts.threads, || validate_inner(project, opts))
 }
 
 fn validate_inner(project: &Path, opts: &ValidateOptions) -> Result<ValidationReport> {
