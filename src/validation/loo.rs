@@ -553,6 +553,16 @@ fn score_rows(study: &Study, preds: &[Pred]) -> Result<Vec<ScoreRow>> {
     Ok(rows)
 }
 
+/// A CSV field, quoted per RFC 4180 when it holds a comma, quote or line break
+/// (well and zone names are user text).
+fn csv_field(v: &str) -> String {
+    if v.contains([',', '"', '\n', '\r']) {
+        format!("\"{}\"", v.replace('"', "\"\""))
+    } else {
+        v.to_string()
+    }
+}
+
 impl ValidationReport {
     /// The score rows as CSV (header row; values SI: m/s for vp0 errors, 1 for
     /// epsilon and delta; empty skill on prior rows).
@@ -562,8 +572,8 @@ impl ValidationReport {
             let _ = writeln!(
                 s,
                 "{},{},{},{},{},{},{},{},{},{},{},{},{},{},{}",
-                r.well,
-                r.zone,
+                csv_field(&r.well),
+                csv_field(&r.zone),
                 r.property,
                 r.method,
                 r.samples,
@@ -620,5 +630,16 @@ impl ValidationReport {
         }
         let _ = writeln!(s, "\nCaution: {}", crate::prior::manifest::CAUTION);
         s
+    }
+}
+
+#[cfg(test)]
+mod csv_tests {
+    #[test]
+    fn csv_fields_with_commas_and_quotes_are_quoted() {
+        // RFC 4180, section 2, rules 6 and 7
+        assert_eq!(super::csv_field("MRW-1"), "MRW-1");
+        assert_eq!(super::csv_field("A,B"), "\"A,B\"");
+        assert_eq!(super::csv_field("say \"x\""), "\"say \"\"x\"\"\"");
     }
 }
