@@ -12,6 +12,7 @@
 //! * [`project`]: the project file that describes one study.
 //! * [`check`], [`inspect`]: the summaries behind the `check` and `inspect` commands.
 //! * [`demo`]: the generator of the fictional demo basin.
+//! * [`report`]: the self-contained HTML QC report of `build` and `validate`.
 //!
 //! Units are SI inside (m, m/s, kg/m3); conversion happens at the edges.
 
@@ -29,6 +30,7 @@ pub mod inspect;
 pub mod io_util;
 pub mod prior;
 pub mod project;
+pub mod report;
 pub mod study;
 pub mod units;
 pub mod validation;

@@ -45,6 +45,8 @@ use crate::geostat::variogram::VariogramModel;
 use crate::geostat::CovarianceModel;
 use crate::io_util::{refuse_overwrite_input, write_atomic};
 use crate::project::{Drift, KrigingMethod};
+use crate::report::data::{CrossPlotRegion, MapFigure, SectionFigure};
+use crate::report::{ReportInputs, ReportKind};
 use crate::study::{load, Study};
 use indicatif::{ProgressBar, ProgressStyle};
 use rayon::prelude::*;
@@ -651,6 +653,23 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     let mut stats: Vec<KrigingStats> = vec![KrigingStats::default(); zps.len()];
     let mut clipped = vec![0u64; zps.len()];
     let nzones = p.zones.len();
+    // report figures captured while streaming: mid-layer maps per zone and
+    // property (mean, sd), the Vp0 mean and zones of the middle inline
+    let mut maps: Vec<(MapFigure, MapFigure)> = zps
+        .iter()
+        .map(|zp| {
+            let zf = &frame.zones[zp.zone];
+            let layer = zf.layers / 2;
+            let name = &p.zones[zp.zone].name;
+            let prop = PROPERTIES[zp.prop];
+            (
+                MapFigure::empty(name, zp.zone, prop, "mean", layer, g.inline_count, nj),
+                MapFigure::empty(name, zp.zone, prop, "sd", layer, g.inline_count, nj),
+            )
+        })
+        .collect();
+    let section_inline = g.inline_count / 2;
+    let mut section: Option<SectionFigure> = None;
     for i in 0..g.inline_count {
         // layer centres per zone and column: (layer, z)
         let layers: Vec<Vec<Vec<(usize, f64)>>> = (0..nzones)
@@ -713,6 +732,18 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     })
                     .collect(),
             );
+        }
+        for (q, zp) in zps.iter().enumerate() {
+            let (mean_map, sd_map) = &mut maps[q];
+            for j in 0..nj {
+                let col = &layers[zp.zone][j];
+                if let Some(n) = col.iter().position(|&(l, _)| l == mean_map.layer) {
+                    if let Some(&(m, v)) = est[q][j].get(n) {
+                        mean_map.values[i * nj + j] = clip_property(p, zp.prop, m);
+                        sd_map.values[i * nj + j] = v.sqrt();
+                    }
+                }
+            }
         }
         // facies probabilities on the layer centres
         let mut fest: Vec<Option<crate::geostat::indicator::FaciesGrid>> =
@@ -857,6 +888,9 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             })
             .collect();
         let traces: Vec<TraceResult> = traces.into_iter().collect::<Result<_>>()?;
+        if i == section_inline {
+            section = Some(section_of(p, &frame, i, nz, nvol, &traces));
+        }
         let mut buf = vec![0f32; nz];
         for (tr, cin, cout, clip) in &traces {
             cells_in += cin;
@@ -880,6 +914,9 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
 
     // sample banks per region (zone, facies) or (zone, area, facies), drawn from the written volumes
     let mut pools = Vec::new();
+    // (zone, area, facies, values, well) of every pool member, for the cross-plots
+    type RegionSample = (usize, Option<usize>, Option<usize>, [f64; 3], usize);
+    let mut region_samples: Vec<RegionSample> = Vec::new();
     for zi in 0..nzones {
         let mut area_slots: Vec<Option<usize>> = (0..p.areas.len())
             .filter(|&a| p.areas[a].zones.contains(&zi))
@@ -894,6 +931,15 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             area_slots.push(None);
         }
         let joint = joint_samples(&blocked, zi, &zps, &loo, &codes);
+        for s in &joint {
+            region_samples.push((
+                zi,
+                crate::project::area_of_xy(&p.areas, g, zi, s.xy[0], s.xy[1]),
+                s.facies,
+                s.values,
+                s.well,
+            ));
+        }
         let points: Vec<[f64; 2]> = joint.iter().map(|s| s.xy).collect();
         let ws: Vec<usize> = joint.iter().map(|s| s.well).collect();
         let vp0: Vec<f64> = joint.iter().map(|s| s.values[0]).collect();
@@ -932,6 +978,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     let bank_dir = out.join("banks");
     let mut bank_entries = Vec::with_capacity(pools.len());
     let mut bank_reports = Vec::with_capacity(pools.len());
+    let mut crossplots: Vec<CrossPlotRegion> = Vec::with_capacity(pools.len());
     for (r, pool) in pools.iter().enumerate() {
         let zname = &p.zones[pool.zone].name;
         let facies = pool
@@ -951,6 +998,26 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             None => zone_area.clone(),
         };
         let rows = bank_rows.get(r).map_or(&[][..], |v| v.as_slice());
+        let members: Vec<&RegionSample> = region_samples
+            .iter()
+            .filter(|s| {
+                s.0 == pool.zone
+                    && pool.area.map_or(true, |a| a == s.1)
+                    && pool.facies.map_or(true, |f| Some(f) == s.2)
+            })
+            .collect();
+        let mut member_wells: Vec<usize> = members.iter().map(|s| s.4).collect();
+        member_wells.sort_unstable();
+        member_wells.dedup();
+        crossplots.push(CrossPlotRegion {
+            region: region.clone(),
+            bank: rows
+                .chunks_exact(7)
+                .map(|c| [f64::from(c[0]), f64::from(c[1]), f64::from(c[2])])
+                .collect(),
+            wells: members.iter().map(|s| s.3).collect(),
+            well_count: member_wells.len(),
+        });
         let mass = masses.get(r).copied().unwrap_or(0.0);
         let entry = write_region(
             &bank_dir, &out, pool, rows, mass, zname, area, facies, p.seed,
@@ -1098,8 +1165,110 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         kind: "build_summary".into(),
         path: relative(&out, &summary_path),
     });
+    let report_path = out.join("report.html");
+    refuse_overwrite_input(&report_path, &inputs)?;
+    manifest.files.push(ManifestFile {
+        kind: "report".into(),
+        path: relative(&out, &report_path),
+    });
+    let mut files: Vec<(String, String)> = manifest
+        .volumes
+        .iter()
+        .map(|v| {
+            (
+                format!("volume {} {} ({})", v.property, v.statistic, v.unit),
+                v.path.clone(),
+            )
+        })
+        .collect();
+    for b in &manifest.banks {
+        files.push(("bank".into(), b.path.clone()));
+        files.push(("residual pool".into(), b.pool_path.clone()));
+    }
+    files.extend(
+        manifest
+            .files
+            .iter()
+            .map(|f| (f.kind.clone(), f.path.clone())),
+    );
+    files.push(("manifest".into(), relative(&out, &manifest_path)));
+    let records: Vec<VariogramRecord> = report.zones.iter().map(|z| z.variogram.clone()).collect();
+    let map_figures: Vec<MapFigure> = maps.into_iter().flat_map(|(m, s)| [m, s]).collect();
+    let map_wells = crate::report::data::well_positions_by_zone(&study, &blocked);
+    crate::report::write(
+        &report_path,
+        &ReportInputs {
+            kind: ReportKind::Build,
+            study: &study,
+            variograms: &records,
+            maps: &map_figures,
+            map_wells: &map_wells,
+            section: section.as_ref(),
+            crossplots: &crossplots,
+            validation: None,
+            files: &files,
+            warnings: &report.warnings,
+        },
+    )?;
     manifest.write(&manifest_path)?;
     Ok(report)
+}
+
+/// Clip an epsilon (`prop` 1) or delta (2) value to the project bounds; Vp0 as is.
+fn clip_property(p: &crate::project::Project, prop: usize, m: f64) -> f64 {
+    match prop {
+        1 => m.clamp(p.bounds.epsilon.0, p.bounds.epsilon.1),
+        2 => m.clamp(p.bounds.delta.0, p.bounds.delta.1),
+        _ => m,
+    }
+}
+
+/// The report's section of inline `i` from its resampled traces: Vp0 mean
+/// (NaN outside every zone) and the depth of every zone's top and of the
+/// deepest base at each trace.
+fn section_of(
+    p: &crate::project::Project,
+    frame: &StratFrame,
+    i: usize,
+    nz: usize,
+    nvol: usize,
+    traces: &[TraceResult],
+) -> SectionFigure {
+    let nj = traces.len();
+    let mut values = vec![f64::NAN; nj * nz];
+    for (j, (tr, ..)) in traces.iter().enumerate() {
+        for k in 0..nz {
+            if tr[k * nvol + 6] >= 0.0 {
+                values[j * nz + k] = f64::from(tr[k * nvol]);
+            }
+        }
+    }
+    let mut horizons: Vec<(String, Vec<f64>)> = Vec::new();
+    let mut seen: Vec<usize> = Vec::new();
+    for (zi, z) in p.zones.iter().enumerate() {
+        let (top, base) = &frame.bounds[zi];
+        for (h, surf) in [(z.top, top), (z.base, base)] {
+            if seen.contains(&h) {
+                continue;
+            }
+            seen.push(h);
+            let name = p
+                .horizons
+                .get(h)
+                .map_or_else(|| format!("horizon {h}"), |d| d.name.clone());
+            let zs = (0..nj)
+                .map(|j| surf.z_at_node(i, j).unwrap_or(f64::NAN))
+                .collect();
+            horizons.push((name, zs));
+        }
+    }
+    SectionFigure {
+        inline: p.grid.inline_number(i),
+        nj,
+        nz,
+        values,
+        horizons,
+    }
 }
 
 /// Leave-one-well-out kriged means of every sample of `zp`, keyed by (well,

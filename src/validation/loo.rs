@@ -51,13 +51,16 @@ use crate::prior::build::{
     joint_samples, loo_means, neighbourhood_params, prepare_with_models, secondary_at, value_of,
     well_decluster_weights, PROPERTIES,
 };
+use crate::prior::variograms::VariogramRecord;
 use crate::prior::volume_sampling::sample_volume;
+use crate::report::{ReportInputs, ReportKind, ValidationContent};
 use crate::study::{load, Study};
 use crate::validation::records::*;
 use crate::validation::scores::{central_interval, crps_ensemble, wasserstein_1d, QuantileMethod};
 use indicatif::{ProgressBar, ProgressStyle};
 use rayon::prelude::*;
 use serde::Serialize;
+use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
@@ -119,6 +122,8 @@ fn validate_inner(project: &Path, opts: &ValidateOptions) -> Result<ValidationRe
     let json_path = opts.out.join("validation.json");
     refuse_overwrite_input(&csv_path, &inputs)?;
     refuse_overwrite_input(&json_path, &inputs)?;
+    let report_path = opts.out.join("report.html");
+    refuse_overwrite_input(&report_path, &inputs)?;
     let frame = study.strat_frame();
     let full = condition_all(&study, &frame)?;
     let with_data: Vec<usize> = full
@@ -134,10 +139,13 @@ fn validate_inner(project: &Path, opts: &ValidateOptions) -> Result<ValidationRe
     }
     let mut warnings = study.warnings.clone();
     let blocked: Vec<&BlockedSample> = full.iter().flat_map(|w| w.blocked.iter()).collect();
+    // the full-data variograms: used for every held-out well unless refitted,
+    // and drawn in the report either way
+    let zps = prepare_with_models(&study, &frame, &blocked, None, &mut warnings)?;
+    let records: Vec<VariogramRecord> = zps.iter().map(|z| z.report.variogram.clone()).collect();
     let models: Option<Vec<VariogramModel>> = if opts.refit_variograms {
         None
     } else {
-        let zps = prepare_with_models(&study, &frame, &blocked, None, &mut warnings)?;
         Some(zps.into_iter().map(|z| z.model).collect())
     };
     let pb = if opts.progress {
@@ -184,6 +192,35 @@ fn validate_inner(project: &Path, opts: &ValidateOptions) -> Result<ValidationRe
     let text = serde_json::to_string_pretty(&report)
         .map_err(|e| Error::inconsistent(format!("cannot encode the validation: {e}")))?;
     write_atomic(&json_path, text.as_bytes())?;
+    let files = vec![
+        (
+            "validation table (CSV)".to_string(),
+            "validation.csv".to_string(),
+        ),
+        (
+            "validation scores and predictions (JSON)".to_string(),
+            "validation.json".to_string(),
+        ),
+    ];
+    crate::report::write(
+        &report_path,
+        &ReportInputs {
+            kind: ReportKind::Validate,
+            study: &study,
+            variograms: &records,
+            maps: &[],
+            map_wells: &BTreeMap::new(),
+            section: None,
+            crossplots: &[],
+            validation: Some(ValidationContent {
+                rows: &report.rows,
+                predictions: &report.predictions,
+                refit_variograms: report.refit_variograms,
+            }),
+            files: &files,
+            warnings: &report.warnings,
+        },
+    )?;
     Ok(report)
 }
 

@@ -28,7 +28,7 @@ pub use fit::{
     FixedStructure,
 };
 pub use model::{Structure, StructureKind, VariogramModel};
-pub use plot::{plot_svg, PlotOptions};
+pub use plot::{plot_model_svg, plot_svg, PlotOptions};
 
 use crate::error::{Error, Result};
 use serde::Serialize;

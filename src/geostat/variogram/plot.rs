@@ -38,13 +38,14 @@ impl Default for PlotOptions {
     }
 }
 
+/// Series colours: our own, dark enough on white and apart in luminance.
 const PALETTE: [RGBColor; 6] = [
-    RGBColor(31, 119, 180),
-    RGBColor(214, 39, 40),
-    RGBColor(44, 160, 44),
-    RGBColor(148, 103, 189),
-    RGBColor(255, 127, 14),
-    RGBColor(23, 190, 207),
+    RGBColor(0, 104, 112),
+    RGBColor(176, 88, 24),
+    RGBColor(92, 52, 128),
+    RGBColor(110, 120, 30),
+    RGBColor(40, 60, 110),
+    RGBColor(150, 40, 70),
 ];
 
 fn plot_err<E: std::fmt::Display>(e: E) -> Error {
@@ -68,6 +69,26 @@ pub fn plot_svg(
     model: Option<&VariogramModel>,
     opts: &PlotOptions,
 ) -> Result<String> {
+    plot_impl(experimental, model, None, opts)
+}
+
+/// Draw a model alone along `direction` (no experimental points: a model given
+/// in the project file, or a direction without pairs), from lag 0 to 1.5 times
+/// the largest range of its structures along that direction.
+pub fn plot_model_svg(
+    model: &VariogramModel,
+    direction: LagDirection,
+    opts: &PlotOptions,
+) -> Result<String> {
+    plot_impl(&[], Some(model), Some(direction), opts)
+}
+
+fn plot_impl(
+    experimental: &[ExperimentalVariogram],
+    model: Option<&VariogramModel>,
+    model_only: Option<LagDirection>,
+    opts: &PlotOptions,
+) -> Result<String> {
     let mut xmax: f64 = 0.0;
     let mut ymax: f64 = 0.0;
     let mut max_pairs = 1u64;
@@ -79,6 +100,17 @@ pub fn plot_svg(
                 max_pairs = max_pairs.max(b.pairs);
             }
         }
+    }
+    if let (Some(m), Some(d)) = (model, model_only) {
+        let r = m
+            .structures
+            .iter()
+            .map(|s| match d {
+                LagDirection::Vertical => s.range_vertical,
+                _ => s.range_major.max(s.range_minor),
+            })
+            .fold(0.0, f64::max);
+        xmax = xmax.max(1.5 * r);
     }
     if xmax <= 0.0 {
         return Err(Error::inconsistent(
@@ -200,6 +232,17 @@ pub fn plot_svg(
                     }))
                     .map_err(plot_err)?;
             }
+        }
+        if let (Some(m), Some(d)) = (model, model_only) {
+            let colour = PALETTE[0];
+            let curve = model_curve(m, &d, xmax, 240);
+            chart
+                .draw_series(LineSeries::new(curve, colour.stroke_width(2)))
+                .map_err(plot_err)?
+                .label(format!("model ({}), no experimental points", d.describe()))
+                .legend(move |(x, y)| {
+                    PathElement::new(vec![(x, y), (x + 18, y)], colour.stroke_width(2))
+                });
         }
         chart
             .configure_series_labels()
