@@ -255,6 +255,11 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
     let m: serde_json::Value =
         serde_json::from_slice(&fs::read(o1.join("manifest.json")).unwrap()).unwrap();
     let vols = m["volumes"].as_array().unwrap();
+    // the QC report too: nothing in it depends on scheduling
+    assert!(
+        fs::read(o1.join("report.html")).unwrap() == fs::read(o2.join("report.html")).unwrap(),
+        "report.html differs between 1 and 2 threads"
+    );
     // mean and std of three properties, zone, one probability per facies, most likely facies
     assert_eq!(vols.len(), 7 + project.facies.len() + 1);
     let mut data = std::collections::BTreeMap::new();

@@ -3,6 +3,8 @@
 //! regions (zone, area, facies), bank cells and pool wells inside their area,
 //! and the zones without areas numbered as in the plain demo.
 
+mod report_support;
+
 use std::fs;
 use std::path::{Path, PathBuf};
 use std::process::Command;
@@ -188,6 +190,28 @@ fn areas_split_the_regions_of_one_zone_and_leave_the_others_alone() {
         }
     }
     assert_eq!(seen, want);
+    // the report draws one cross-plot per region, areas included
+    let html = fs::read_to_string(out.join("report.html")).unwrap();
+    let expected: Vec<String> = banks
+        .iter()
+        .map(|b| {
+            let region = match b["area"].as_str() {
+                Some(a) => format!(
+                    "zone {} area {a} facies {}",
+                    b["zone"].as_str().unwrap(),
+                    b["facies"].as_str().unwrap()
+                ),
+                None => format!(
+                    "zone {} facies {}",
+                    b["zone"].as_str().unwrap(),
+                    b["facies"].as_str().unwrap()
+                ),
+            };
+            report_support::id(&["crossplot", &region])
+        })
+        .collect();
+    assert!(expected.iter().any(|e| e.contains("area_west")));
+    report_support::check_report(&html, &expected, 20).unwrap_or_else(|e| panic!("{e}"));
     // the summary names the area of each borrowing region's warning
     for w in summary["warnings"].as_array().unwrap() {
         let w = w.as_str().unwrap();

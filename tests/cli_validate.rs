@@ -41,6 +41,11 @@ fn demo_validation_is_complete_consistent_and_deterministic() {
     let csv1 = fs::read_to_string(t1.path().join("validation.csv")).unwrap();
     let csv2 = fs::read_to_string(t2.path().join("validation.csv")).unwrap();
     assert_eq!(csv1, csv2, "1 and 2 threads differ");
+    assert!(
+        fs::read(t1.path().join("report.html")).unwrap()
+            == fs::read(t2.path().join("report.html")).unwrap(),
+        "report.html differs between 1 and 2 threads"
+    );
 
     let v: serde_json::Value =
         serde_json::from_str(&fs::read_to_string(t1.path().join("validation.json")).unwrap())
