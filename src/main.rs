@@ -96,10 +96,24 @@ enum Command {
         /// Seed of the generator.
         #[arg(long, default_value_t = stratiprior::demo::DEFAULT_SEED)]
         seed: u64,
+        /// `field`: the committed demo (2.5 km x 3.5 km, 50 m bins); `regional`:
+        /// the same basin and wells on a 7 km x 6 km survey (100 m bins) whose
+        /// far part lies more than 1.5 km from every well.
+        #[arg(long, value_enum, default_value_t = SurveyArg::Field)]
+        survey: SurveyArg,
         /// Print nothing but errors.
         #[arg(long, short)]
         quiet: bool,
     },
+}
+
+/// The demo's survey.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+enum SurveyArg {
+    /// The committed demo survey.
+    Field,
+    /// The regional survey around it.
+    Regional,
 }
 
 /// How a command reports: text, JSON or nothing.
@@ -219,10 +233,19 @@ fn run(cli: Cli) -> anyhow::Result<()> {
             let ins = stratiprior::inspect::inspect(&file, kind.map(Into::into), json)?;
             emit(&ins, json, false, || ins.render_text())?;
         }
-        Command::Demo { out, seed, quiet } => {
+        Command::Demo {
+            out,
+            seed,
+            survey,
+            quiet,
+        } => {
             let report = stratiprior::demo::generate(&stratiprior::demo::DemoOptions {
                 out_dir: out.clone(),
                 seed,
+                survey: match survey {
+                    SurveyArg::Field => stratiprior::demo::DemoSurvey::Field,
+                    SurveyArg::Regional => stratiprior::demo::DemoSurvey::Regional,
+                },
             })
             .with_context(|| format!("writing the demo basin into {}", out.display()))?;
             emit(&report, true, quiet, String::new)?;

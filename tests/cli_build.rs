@@ -342,10 +342,10 @@ fn build_writes_consistent_volumes_deterministically_and_beats_the_zone_mean() {
 
     // against the demo truth: the generator writes it next to a fresh demo
     let demo = d.path().join("demo");
-    stratiprior::demo::generate(&stratiprior::demo::DemoOptions {
-        out_dir: demo.clone(),
-        seed: stratiprior::demo::DEFAULT_SEED,
-    })
+    stratiprior::demo::generate(&stratiprior::demo::DemoOptions::field(
+        demo.clone(),
+        stratiprior::demo::DEFAULT_SEED,
+    ))
     .unwrap();
     let truth_zone = read_npy_f32(&demo.join("demo_truth/zone.npy"));
     let background =

@@ -18,11 +18,7 @@ use stratiprior::project::Project;
 fn two_runs_are_byte_identical() {
     let (a, _) = fresh();
     let b = tempfile::tempdir().unwrap();
-    generate(&DemoOptions {
-        out_dir: b.path().to_path_buf(),
-        seed: DEFAULT_SEED,
-    })
-    .unwrap();
+    generate(&DemoOptions::field(b.path().to_path_buf(), DEFAULT_SEED)).unwrap();
     let fa: Vec<String> = ["demo_wells", "demo_horizons", "demo_volumes", "demo_truth"]
         .iter()
         .flat_map(|s| files_under(a.path(), s))
@@ -40,10 +36,10 @@ fn two_runs_are_byte_identical() {
     }
     // a different seed gives a different basin
     let c = tempfile::tempdir().unwrap();
-    generate(&DemoOptions {
-        out_dir: c.path().to_path_buf(),
-        seed: DEFAULT_SEED + 1,
-    })
+    generate(&DemoOptions::field(
+        c.path().to_path_buf(),
+        DEFAULT_SEED + 1,
+    ))
     .unwrap();
     let p = "demo_wells/MRW-1.las";
     assert_ne!(

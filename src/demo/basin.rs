@@ -85,6 +85,49 @@ pub fn demo_grid() -> SurveyGrid {
     }
 }
 
+/// The regional survey around the field: the same geology, on 100 m bins over
+/// 7 km x 6 km, with the field's wells in its north-western part, so that much
+/// of it lies more than 1.5 km from every well (the far field of the priors).
+/// Its node (0, 0) is at local position (u, v) = [`REGIONAL_OFFSET`] of the
+/// field survey's frame; depths 1900-3100 m TVDSS at 10 m.
+pub fn regional_grid() -> SurveyGrid {
+    let f = demo_grid();
+    let (x0, y0) = f.node_xy(
+        REGIONAL_OFFSET.1 / f.inline_spacing,
+        REGIONAL_OFFSET.0 / f.xline_spacing,
+    );
+    SurveyGrid {
+        x0: libm::round(x0 * 100.0) / 100.0,
+        y0: libm::round(y0 * 100.0) / 100.0,
+        azimuth: f.azimuth,
+        inline_spacing: 100.0,
+        xline_spacing: 100.0,
+        inline_first: 101,
+        inline_count: 61,
+        xline_first: 501,
+        xline_count: 71,
+        z0: 1900.0,
+        dz: 10.0,
+        z_count: 121,
+    }
+}
+
+/// Local position (u, v) in m of the regional survey's first node in the field
+/// frame.
+pub const REGIONAL_OFFSET: (f64, f64) = (-1000.0, -1000.0);
+
+/// Which survey the demo is generated on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum DemoSurvey {
+    /// The committed demo: the field survey, 2.5 km x 3.5 km on 50 m bins.
+    #[default]
+    Field,
+    /// The regional survey ([`regional_grid`]): the same basin and wells on a
+    /// 7 km x 6 km survey, for far-field checks.
+    Regional,
+}
+
 fn smooth_fold(u: f64, v: f64) -> f64 {
     // An anticline elongated along a bearing oblique to the grid, plus gentle
     // regional folding; negative values are structurally high (shallower).
@@ -272,17 +315,32 @@ pub fn gardner_density(vp: f64) -> f64 {
 /// The whole truth model of the demo basin.
 #[derive(Debug, Clone)]
 pub struct Basin {
+    /// The field survey: the frame of the local coordinates (u, v).
+    frame: SurveyGrid,
+    /// The survey the demo is generated on.
     grid: SurveyGrid,
+    /// Local (u, v) of the survey's node (0, 0), m.
+    offset: (f64, f64),
     regions: Vec<RegionFields>,
     /// Vostrand channels.
     pub channels: Vec<Channel>,
 }
 
 impl Basin {
-    /// Draw the random parts of the basin from `seed`.
+    /// Draw the random parts of the basin from `seed`, on the field survey.
     pub fn new(seed: u64) -> Self {
+        Self::on_survey(seed, DemoSurvey::Field)
+    }
+
+    /// Draw the random parts of the basin from `seed` (the same geology for
+    /// every survey) and sample it on `survey`.
+    pub fn on_survey(seed: u64, survey: DemoSurvey) -> Self {
         let mut rng = ChaCha20Rng::seed_from_u64(seed ^ 0x5154_4152_5645_4e4e);
-        let grid = demo_grid();
+        let frame = demo_grid();
+        let (grid, offset) = match survey {
+            DemoSurvey::Field => (demo_grid(), (0.0, 0.0)),
+            DemoSurvey::Regional => (regional_grid(), REGIONAL_OFFSET),
+        };
         let mut regions = Vec::with_capacity(5);
         for r in 0..5 {
             // Facies bodies: long along the depositional axis (u), a few metres thick.
@@ -323,7 +381,9 @@ impl Basin {
             })
             .collect();
         Basin {
+            frame,
             grid,
+            offset,
             regions,
             channels,
         }
@@ -334,10 +394,20 @@ impl Basin {
         &self.grid
     }
 
+    /// The field survey, whose node (i, j) is at local (u, v) = (50 j, 50 i).
+    pub fn frame(&self) -> &SurveyGrid {
+        &self.frame
+    }
+
+    /// Local (u, v) in m of the survey's node (0, 0) (0, 0 on the field survey).
+    pub fn survey_offset(&self) -> (f64, f64) {
+        self.offset
+    }
+
     /// Local map coordinates (u, v) in metres of world point (x, y).
     pub fn local(&self, x: f64, y: f64) -> (f64, f64) {
-        let (i, j) = self.grid.xy_to_ij(x, y);
-        (j * self.grid.xline_spacing, i * self.grid.inline_spacing)
+        let (i, j) = self.frame.xy_to_ij(x, y);
+        (j * self.frame.xline_spacing, i * self.frame.inline_spacing)
     }
 
     /// True horizon depths (m TVDSS) at world point (x, y).

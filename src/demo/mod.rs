@@ -30,6 +30,7 @@ use crate::error::{Error, Result};
 use crate::formats::las::{write_las2, Decimals, WriteCurve, WriteItem};
 use crate::formats::segy::{write_volume, VolumeMeta};
 use crate::io_util::write_atomic;
+pub use basin::DemoSurvey;
 use basin::{Basin, CELL_THICKNESS, FACIES, HORIZONS, HORIZON_FILES, LAYERING, ZONES};
 use serde::Serialize;
 use std::path::{Path, PathBuf};
@@ -46,6 +47,20 @@ pub struct DemoOptions {
     pub out_dir: PathBuf,
     /// Seed of every random draw.
     pub seed: u64,
+    /// The survey: the field survey of the committed demo, or the regional
+    /// survey around it (same geology and wells, far-field checks).
+    pub survey: DemoSurvey,
+}
+
+impl DemoOptions {
+    /// The committed demo's survey with `seed`, written into `out_dir`.
+    pub fn field(out_dir: impl Into<PathBuf>, seed: u64) -> Self {
+        DemoOptions {
+            out_dir: out_dir.into(),
+            seed,
+            survey: DemoSurvey::Field,
+        }
+    }
 }
 
 /// One file written.
@@ -183,7 +198,7 @@ impl Writer<'_> {
 /// Generate the demo study under `opts.out_dir` (see the module docs).
 pub fn generate(opts: &DemoOptions) -> Result<DemoReport> {
     let seed = opts.seed;
-    let basin = Basin::new(seed);
+    let basin = Basin::on_survey(seed, opts.survey);
     let grid = basin.grid().clone();
     let mut w = Writer {
         root: &opts.out_dir,

@@ -113,8 +113,10 @@ pub fn make_picks(basin: &Basin, seed: u64) -> Vec<HorizonPicks> {
     let grid = basin.grid();
     let mut rng = ChaCha20Rng::seed_from_u64(seed.wrapping_add(0x9c45_0000));
     let bias = Bias::new(&mut rng);
-    let umax = (grid.xline_count - 1) as f64 * grid.xline_spacing;
-    let vmax = (grid.inline_count - 1) as f64 * grid.inline_spacing;
+    // local (u, v) of the survey's node (0, 0): (0, 0) on the field survey
+    let (u0, v0) = basin.survey_offset();
+    let umax = u0 + (grid.xline_count - 1) as f64 * grid.xline_spacing;
+    let vmax = v0 + (grid.inline_count - 1) as f64 * grid.inline_spacing;
     let mut out = Vec::with_capacity(HORIZONS.len());
     for (h, name) in HORIZONS.iter().enumerate() {
         let sep = SEPARATORS[h];
@@ -140,12 +142,15 @@ pub fn make_picks(basin: &Basin, seed: u64) -> Vec<HorizonPicks> {
                 let dv = uniform(&mut rng, -0.35, 0.35) * grid.inline_spacing;
                 let drop = uniform(&mut rng, 0.0, 1.0) < 0.06;
                 let noise = PICK_NOISE * normal(&mut rng);
-                let u = (j as f64 * grid.xline_spacing + du).clamp(0.0, umax);
-                let v = (i as f64 * grid.inline_spacing + dv).clamp(0.0, vmax);
+                let u = (u0 + j as f64 * grid.xline_spacing + du).clamp(u0, umax);
+                let v = (v0 + i as f64 * grid.inline_spacing + dv).clamp(v0, vmax);
                 if drop || hs.iter().any(|o| o.contains(u, v)) {
                     continue;
                 }
-                let (xw, yw) = grid.node_xy(v / grid.inline_spacing, u / grid.xline_spacing);
+                let (xw, yw) = grid.node_xy(
+                    (v - v0) / grid.inline_spacing,
+                    (u - u0) / grid.xline_spacing,
+                );
                 let x = as_written(xw, 2);
                 let y = as_written(yw, 2);
                 let (ul, vl) = basin.local(x, y);

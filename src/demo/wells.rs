@@ -308,7 +308,8 @@ fn first_crossing(from: f64, to: f64, f: impl Fn(f64) -> f64) -> Option<f64> {
 
 /// Build one well: stations, trajectory, tops, logs.
 pub fn build_well(basin: &Basin, spec: &WellSpec, seed: u64, index: usize) -> Result<BuiltWell> {
-    let grid = basin.grid();
+    // well positions are fixed in the field frame, whatever the survey
+    let grid = basin.frame();
     let (xs, ys) = grid.node_xy(
         spec.uv.1 / grid.inline_spacing,
         spec.uv.0 / grid.xline_spacing,

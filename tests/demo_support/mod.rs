@@ -17,11 +17,8 @@ pub fn fresh() -> &'static (tempfile::TempDir, DemoReport) {
     static GEN: OnceLock<(tempfile::TempDir, DemoReport)> = OnceLock::new();
     GEN.get_or_init(|| {
         let dir = tempfile::tempdir().expect("temp dir");
-        let report = generate(&DemoOptions {
-            out_dir: dir.path().to_path_buf(),
-            seed: DEFAULT_SEED,
-        })
-        .expect("demo generation");
+        let report = generate(&DemoOptions::field(dir.path().to_path_buf(), DEFAULT_SEED))
+            .expect("demo generation");
         (dir, report)
     })
 }
