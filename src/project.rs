@@ -87,6 +87,7 @@ struct RawKriging {
     epsilon: Option<String>,
     delta: Option<String>,
     vp0_drift: Option<String>,
+    facies_trend: Option<bool>,
     #[serde(default)]
     zones: BTreeMap<String, RawKrigingZone>,
 }
@@ -201,6 +202,7 @@ struct RawVolumes {
     #[serde(default)]
     facies_probability: BTreeMap<String, PathBuf>,
     blend_facies_with_wells: Option<bool>,
+    calibrate_facies_labels: Option<bool>,
 }
 
 #[derive(Debug, Clone, Deserialize)]
@@ -449,6 +451,10 @@ pub struct VolumeDefs {
     /// Whether facies probabilities from volumes are blended with indicator
     /// kriging of the wells near wells (default true); false uses the volumes alone.
     pub blend_facies_with_wells: bool,
+    /// Whether the facies-label volume's labels are read through their
+    /// confusion calibrated at the wells (default true); false takes them as
+    /// certain.
+    pub calibrate_facies_labels: bool,
 }
 
 /// Where Vp0, epsilon and delta of a log sample come from.
@@ -582,6 +588,10 @@ pub struct KrigingSettings {
     pub methods: BTreeMap<(String, String), KrigingMethod>,
     /// Drift of external-drift kriging of Vp0.
     pub vp0_drift: Drift,
+    /// Whether the kriging mean follows the facies (projects with facies): the
+    /// wells' facies offsets are removed before kriging and their
+    /// probability-weighted sum added back at every cell (default true).
+    pub facies_trend: bool,
 }
 
 impl KrigingSettings {
@@ -1201,6 +1211,7 @@ impl Project {
                 search_radius,
                 methods,
                 vp0_drift,
+                facies_trend: k.as_ref().and_then(|k| k.facies_trend).unwrap_or(true),
             }
         };
 
@@ -1265,6 +1276,7 @@ impl Project {
                 facies: facies_vol,
                 facies_probability,
                 blend_facies_with_wells: v.blend_facies_with_wells.unwrap_or(true),
+                calibrate_facies_labels: v.calibrate_facies_labels.unwrap_or(true),
             },
             conditioning,
             kriging,

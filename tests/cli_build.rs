@@ -131,7 +131,20 @@ fn check_banks(m: &serde_json::Value, o1: &Path, o2: &Path, data: &Data, g: &Sur
         let off: Vec<f64> = (0..3).map(|q| b["offset"][q].as_f64().unwrap()).collect();
         let zi = b["zone_index"].as_u64().unwrap() as f32;
         let fname = b["facies"].as_str().unwrap();
-        // bank residual: value minus the trend at its cell (mean volumes + d_f)
+        // the facies trend the mean volumes hold (manifest zones[].facies_trend)
+        let trend_of_zone: Vec<(String, [f64; 3])> = m["zones"][zi as usize]["facies_trend"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|e| {
+                (
+                    e[0].as_str().unwrap().to_string(),
+                    [0, 1, 2].map(|q| e[1][q].as_f64().unwrap()),
+                )
+            })
+            .collect();
+        // bank residual: value minus the trend at its cell
+        // (mean volumes - sum_f p_f t_f + d_f)
         let mut res: Vec<Vec<f64>> = vec![Vec::new(); 3];
         for row in bank.chunks_exact(7) {
             let (fi, fj) = g.xy_to_ij(f64::from(row[3]), f64::from(row[4]));
@@ -145,7 +158,13 @@ fn check_banks(m: &serde_json::Value, o1: &Path, o2: &Path, data: &Data, g: &Sur
                 .iter()
                 .enumerate()
             {
-                res[q].push(f64::from(row[q]) - (f64::from(data[*key][c]) + off[q]));
+                let mix: f64 = trend_of_zone
+                    .iter()
+                    .map(|(f, t)| {
+                        f64::from(data[&format!("facies_probability:{f}_value")][c]) * t[q]
+                    })
+                    .sum();
+                res[q].push(f64::from(row[q]) - (f64::from(data[*key][c]) - mix + off[q]));
             }
         }
         let pw: Vec<f64> = pool.chunks_exact(5).map(|p| f64::from(p[3])).collect();

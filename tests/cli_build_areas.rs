@@ -77,12 +77,51 @@ fn areas_split_the_regions_of_one_zone_and_leave_the_others_alone() {
     };
     let zone = vol("zone");
     // blend_facies_with_wells = false: inside zones the facies come from the
-    // facies-label volume alone (probability 1 on its code)
+    // facies-label volume alone, read through its confusion calibrated at the
+    // wells: the probabilities of a cell are the row of its label, and the most
+    // likely facies that row's largest entry
     let labels = read_volume_on_grid(&root().join("demo_volumes/facies.sgy"), g).unwrap();
     let most_likely = vol("facies");
+    let confusion: Vec<Vec<f64>> = summary["facies_label_confusion"]
+        .as_array()
+        .expect("a calibrated label confusion")
+        .iter()
+        .map(|row| {
+            row[1]
+                .as_array()
+                .unwrap()
+                .iter()
+                .map(|e| e[1].as_f64().unwrap())
+                .collect()
+        })
+        .collect();
+    assert_eq!(confusion.len(), nf);
+    for row in &confusion {
+        assert!((row.iter().sum::<f64>() - 1.0).abs() < 1e-12);
+        assert!(row.iter().all(|p| *p > 0.0 && *p < 1.0));
+    }
+    let probs: Vec<Vec<f32>> = project
+        .facies
+        .iter()
+        .map(|f| vol(&format!("facies_probability:{}", f.name)))
+        .collect();
     for k in 0..zone.len() {
         if zone[k] >= 0.0 {
-            assert_eq!(most_likely[k], labels[k], "cell {k}");
+            let l = project
+                .facies
+                .iter()
+                .position(|f| f.code as f32 == labels[k])
+                .unwrap();
+            for (f, pv) in probs.iter().enumerate() {
+                assert!(
+                    (f64::from(pv[k]) - confusion[l][f]).abs() < 1e-6,
+                    "cell {k} facies {f}"
+                );
+            }
+            let best = (0..nf)
+                .max_by(|&a, &b| confusion[l][a].total_cmp(&confusion[l][b]))
+                .unwrap();
+            assert_eq!(most_likely[k], project.facies[best].code as f32, "cell {k}");
         }
     }
     // vertical wells (no survey in the well table) stand at their table (x, y)

@@ -442,6 +442,52 @@ pub fn label_probabilities(value: f64, codes: &[i32], confidence: f64) -> Result
     Ok(Some(p))
 }
 
+/// The confusion of a facies-label volume, calibrated at the wells:
+/// `P[l][f]`, the probability that a cell labelled `l` holds facies `f`, from
+/// `pairs` of (label index, well facies index) at the wells' blocked cells, with
+/// add-one (Laplace) smoothing:
+///
+/// ```text
+/// P[l][f] = (n[l][f] + 1) / (sum_g n[l][g] + K)
+/// ```
+///
+/// for `K` facies (a label never seen at the wells gets uniform probabilities).
+/// Calibrating a seismic facies classification against the wells' facies by
+/// its confusion matrix is common practice; the smoothing is Laplace's rule of
+/// succession (Manning, Raghavan and Schuetze 2008, "Introduction to
+/// Information Retrieval", eq. 13.7).
+pub fn label_confusion(pairs: &[(usize, usize)], k: usize) -> Vec<Vec<f64>> {
+    let mut n = vec![vec![0usize; k]; k];
+    for &(l, f) in pairs {
+        if l < k && f < k {
+            n[l][f] += 1;
+        }
+    }
+    n.iter()
+        .map(|row| {
+            let tot: usize = row.iter().sum();
+            row.iter()
+                .map(|c| (*c as f64 + 1.0) / (tot as f64 + k as f64))
+                .collect()
+        })
+        .collect()
+}
+
+/// The facies probabilities of a label-volume sample under a calibrated
+/// confusion ([`label_confusion`]): the row of the sample's label. `None` for a
+/// non-finite value; errors as [`label_probabilities`].
+pub fn confused_label_probabilities(
+    value: f64,
+    codes: &[i32],
+    confusion: &[Vec<f64>],
+) -> Result<Option<Vec<f64>>> {
+    let Some(hard) = label_probabilities(value, codes, 1.0)? else {
+        return Ok(None);
+    };
+    let l = hard.iter().position(|p| *p >= 1.0).unwrap_or(0);
+    Ok(confusion.get(l).cloned().or(Some(hard)))
+}
+
 /// Per-facies probability-volume samples made into a probability vector:
 /// values must be finite and within `[-1e-3, 1 + 1e-3]` (float32 storage and
 /// resampling); they are clipped to `[0, 1]` and divided by their sum.

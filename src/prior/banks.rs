@@ -329,6 +329,11 @@ pub struct BankVolumes {
     pub means: [PathBuf; 3],
     /// Facies-probability volumes, in facies order (empty without facies).
     pub probabilities: Vec<PathBuf>,
+    /// The facies offsets the mean volumes hold (the facies trend), per zone,
+    /// per facies: vp0, epsilon, delta; empty (or zeros) without it. A bank
+    /// trend is the mean minus their probability-weighted sum at the cell plus
+    /// the region's own offset.
+    pub facies_offsets: Vec<Vec<[f64; 3]>>,
 }
 
 /// Seed and stream of region `r`'s generator: ChaCha8 seeded from the project
@@ -525,8 +530,19 @@ pub fn draw_banks(
                     .locate_cell(grid, i, j, k)
                     .map_or(f64::NAN, |pos| pos.s);
                 let pool = &pools[r];
+                // the mean volumes hold the facies trend sum_f p_f d_f: the
+                // region's trend replaces it with its own offset
+                let mut mix = [0.0; 3];
+                if let Some(offs) = volumes.facies_offsets.get(z as usize) {
+                    for (f, d) in offs.iter().enumerate() {
+                        let pf = st.prob(Some(f), k);
+                        for q in 0..3 {
+                            mix[q] += pf * d[q];
+                        }
+                    }
+                }
                 let trend: [f64; 3] =
-                    [0, 1, 2].map(|q| f64::from(st.bufs[1 + q][k]) + pool.offset[q]);
+                    [0, 1, 2].map(|q| f64::from(st.bufs[1 + q][k]) - mix[q] + pool.offset[q]);
                 for &pick in &picks[r][n_done..n_done + n_new] {
                     let res = pool.rows[pick].0;
                     banks[r].extend_from_slice(&[

@@ -35,9 +35,9 @@ use crate::error::{Error, Result};
 use crate::formats::segy::{SegyWriter, VolumeMeta};
 use crate::frame::strat::StratFrame;
 use crate::geostat::indicator::{
-    blend_with_volume, label_probabilities, most_likely_facies, volume_probabilities,
-    weighted_proportions, FaciesSample, IndicatorFitOptions, IndicatorKriging, IndicatorMethod,
-    IndicatorOptions, IndicatorSetup,
+    blend_with_volume, confused_label_probabilities, label_confusion, label_probabilities,
+    most_likely_facies, volume_probabilities, weighted_proportions, FaciesSample,
+    IndicatorFitOptions, IndicatorKriging, IndicatorMethod, IndicatorOptions, IndicatorSetup,
 };
 use crate::geostat::kriging::{Kriger, KrigingKind, KrigingStats, Note, Sample, SampleSet, Target};
 use crate::geostat::neighbourhood::NeighbourhoodParams;
@@ -85,7 +85,7 @@ pub struct ZonePropertyReport {
     pub samples: usize,
     /// Wells contributing.
     pub wells: usize,
-    /// Mean of the samples (SI).
+    /// Mean of the samples (SI), before the facies trend is removed.
     pub data_mean: f64,
     /// Variogram.
     pub variogram: VariogramRecord,
@@ -101,6 +101,8 @@ pub struct ZonePropertyReport {
     pub drift_fallbacks: u64,
     /// Depth cells clipped to the bounds (epsilon, delta).
     pub clipped_cells: u64,
+    /// Facies offsets of the facies trend, by facies name (empty without it).
+    pub facies_offsets: Vec<(String, f64)>,
 }
 
 /// Facies estimation of one zone.
@@ -117,6 +119,10 @@ pub struct FaciesZoneReport {
     /// How the probabilities were made.
     pub source: String,
 }
+
+/// One row of a calibrated label confusion: the label (facies name) and the
+/// probability of each facies in cells with that label.
+pub type LabelConfusionRow = (String, Vec<(String, f64)>);
 
 /// What `build` did.
 #[derive(Debug, Clone, Serialize)]
@@ -135,6 +141,10 @@ pub struct BuildReport {
     pub facies: Vec<FaciesZoneReport>,
     /// Sample banks per region (zone, facies).
     pub banks: Vec<BankReport>,
+    /// The facies-label volume's confusion calibrated at the wells: per label
+    /// (facies name), the probability of each facies (`None` without a label
+    /// volume, or with `[volumes] calibrate_facies_labels = false`).
+    pub facies_label_confusion: Option<Vec<LabelConfusionRow>>,
     /// Warnings.
     pub warnings: Vec<String>,
 }
@@ -154,6 +164,9 @@ pub(crate) struct ZoneProperty {
     pub(crate) drift: Option<Drift>,
     pub(crate) trend: Option<(f64, f64)>,
     pub(crate) mean: f64,
+    /// Facies offsets `d_f` per project facies (empty: no facies trend); the
+    /// samples hold `v - d_f` of their facies.
+    pub(crate) facies_offsets: Vec<f64>,
     pub(crate) report: ZonePropertyReport,
 }
 
@@ -204,6 +217,71 @@ pub(crate) fn value_of(b: &BlockedSample, prop: usize) -> Option<f64> {
         1 => b.epsilon,
         _ => b.delta,
     }
+}
+
+/// Facies offsets of one zone and property: `d_f = m_f - m`, the declustered
+/// mean of the blocked samples of facies `f` minus the declustered mean of all
+/// the zone's samples of the property (cell declustering of the wells, Deutsch
+/// 1989, as for the bank offsets), per project facies; 0 for a facies without
+/// samples.
+///
+/// With them the prior follows a facies-conditioned trend (kriging with a
+/// locally varying mean, Goovaerts 1997, "Geostatistics for Natural Resources
+/// Evaluation", section 6.2): the samples are kriged as `v - d_f(sample)` and
+/// at a cell with facies probabilities `p_f` the estimate is
+/// `m* + sum_f p_f d_f` with variance `sigma2* + sum_f p_f (d_f - sum_g p_g d_g)^2`
+/// (the law of total variance over the uncertain facies).
+fn facies_offsets(
+    rows: &[&BlockedSample],
+    pi: usize,
+    facies: &[crate::project::FaciesDef],
+) -> Result<Vec<f64>> {
+    let with: Vec<&BlockedSample> = rows
+        .iter()
+        .copied()
+        .filter(|b| value_of(b, pi).is_some())
+        .collect();
+    let points: Vec<[f64; 2]> = with.iter().map(|b| [b.x, b.y]).collect();
+    let wells: Vec<usize> = with.iter().map(|b| b.well).collect();
+    let values: Vec<f64> = with
+        .iter()
+        .map(|b| value_of(b, pi).unwrap_or(f64::NAN))
+        .collect();
+    let w = well_decluster_weights(&points, &wells, &values)?;
+    let wmean = |keep: &dyn Fn(&BlockedSample) -> bool| -> Option<f64> {
+        let (mut sw, mut swv) = (0.0, 0.0);
+        for ((b, v), wt) in with.iter().zip(&values).zip(&w) {
+            if keep(b) {
+                sw += wt;
+                swv += wt * v;
+            }
+        }
+        (sw > 0.0).then(|| swv / sw)
+    };
+    let Some(zone) = wmean(&|_| true) else {
+        return Ok(vec![0.0; facies.len()]);
+    };
+    Ok(facies
+        .iter()
+        .map(|f| wmean(&|b| b.facies == Some(f.code)).map_or(0.0, |m| m - zone))
+        .collect())
+}
+
+/// The facies trend at a cell with facies probabilities `probs`: the
+/// probability-weighted offset `sum_f p_f d_f` and the variance it adds,
+/// `sum_f p_f (d_f - sum_g p_g d_g)^2` (see [`facies_offsets`]); `(0, 0)`
+/// without offsets.
+pub(crate) fn facies_mix(offsets: &[f64], probs: &[f64]) -> (f64, f64) {
+    if offsets.is_empty() || offsets.len() != probs.len() {
+        return (0.0, 0.0);
+    }
+    let mix: f64 = offsets.iter().zip(probs).map(|(d, p)| p * d).sum();
+    let var: f64 = offsets
+        .iter()
+        .zip(probs)
+        .map(|(d, p)| p * (d - mix) * (d - mix))
+        .sum();
+    (mix, var)
 }
 
 /// Least-squares line `v = a + b z`; `None` with fewer than 2 distinct depths.
@@ -348,10 +426,25 @@ pub(crate) fn prepare_with_models(
                     Drift::BackgroundVp0 => sample_volume(g, &background?.data, x, y, z),
                 }
             };
-            let values: Vec<(f64, f64)> = rows
+            // the facies trend: each sample's facies offset is removed before kriging
+            let offsets = if p.kriging.facies_trend && !p.facies.is_empty() {
+                facies_offsets(&rows, pi, &p.facies)?
+            } else {
+                Vec::new()
+            };
+            let offset_of = |b: &BlockedSample| -> f64 {
+                b.facies
+                    .and_then(|c| p.facies.iter().position(|f| f.code == c))
+                    .and_then(|f| offsets.get(f).copied())
+                    .unwrap_or(0.0)
+            };
+            let adjusted = |b: &BlockedSample| value_of(b, pi).unwrap_or(f64::NAN) - offset_of(b);
+            let values: Vec<(f64, f64)> = rows.iter().map(|b| (b.z, adjusted(b))).collect();
+            let raw_mean = rows
                 .iter()
-                .map(|b| (b.z, value_of(b, pi).unwrap_or(f64::NAN)))
-                .collect();
+                .map(|b| value_of(b, pi).unwrap_or(f64::NAN))
+                .sum::<f64>()
+                / rows.len() as f64;
             let mean = values.iter().map(|v| v.1).sum::<f64>() / values.len() as f64;
             // secondary-variable value at every sample
             let mut sec = Vec::with_capacity(rows.len());
@@ -390,7 +483,7 @@ pub(crate) fn prepare_with_models(
                     b.well as u32,
                     b.layer as i32,
                     [b.x, b.y, s_centre],
-                    value_of(b, pi).unwrap_or(f64::NAN),
+                    adjusted(b),
                 );
                 let k = samples.len();
                 if drift_values {
@@ -477,7 +570,7 @@ pub(crate) fn prepare_with_models(
                 }),
                 samples: rows.len(),
                 wells: nwells,
-                data_mean: mean,
+                data_mean: raw_mean,
                 variogram: record,
                 targets: 0,
                 solves: 0,
@@ -485,6 +578,12 @@ pub(crate) fn prepare_with_models(
                 no_neighbours: 0,
                 drift_fallbacks: 0,
                 clipped_cells: 0,
+                facies_offsets: p
+                    .facies
+                    .iter()
+                    .zip(&offsets)
+                    .map(|(f, d)| (f.name.clone(), *d))
+                    .collect(),
             };
             zps.push(ZoneProperty {
                 zone: zi,
@@ -496,6 +595,7 @@ pub(crate) fn prepare_with_models(
                 drift,
                 trend,
                 mean,
+                facies_offsets: offsets,
                 report,
             });
         }
@@ -559,6 +659,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         })
         .collect();
     let use_prob_volumes = prob_volumes.iter().all(|v| v.is_some()) && !prob_volumes.is_empty();
+    let facies_volumes = FaciesVolumes::of(&study, &blocked);
     let nk = if facies_setups.iter().any(|s| s.is_some()) {
         codes.len()
     } else {
@@ -733,18 +834,6 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     .collect(),
             );
         }
-        for (q, zp) in zps.iter().enumerate() {
-            let (mean_map, sd_map) = &mut maps[q];
-            for j in 0..nj {
-                let col = &layers[zp.zone][j];
-                if let Some(n) = col.iter().position(|&(l, _)| l == mean_map.layer) {
-                    if let Some(&(m, v)) = est[q][j].get(n) {
-                        mean_map.values[i * nj + j] = clip_property(p, zp.prop, m);
-                        sd_map.values[i * nj + j] = v.sqrt();
-                    }
-                }
-            }
-        }
         // facies probabilities on the layer centres
         let mut fest: Vec<Option<crate::geostat::indicator::FaciesGrid>> =
             Vec::with_capacity(nzones);
@@ -763,6 +852,40 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         .collect();
                     fest.push(Some(fe.estimate_columns(&columns)?));
                 }
+            }
+        }
+        // the report's mid-layer maps: the layer-centre estimates with the facies trend
+        for (q, zp) in zps.iter().enumerate() {
+            let (mean_map, sd_map) = &mut maps[q];
+            for j in 0..nj {
+                let col = &layers[zp.zone][j];
+                let Some(n) = col.iter().position(|&(l, _)| l == mean_map.layer) else {
+                    continue;
+                };
+                let Some(&(m, v)) = est[q][j].get(n) else {
+                    continue;
+                };
+                let (mut mix, mut mix_var) = (0.0, 0.0);
+                if nk > 0 && !zp.facies_offsets.is_empty() {
+                    let kriged = match &fest[zp.zone] {
+                        Some(fg) => {
+                            let c = &fg.columns[j];
+                            if n < c.len() {
+                                Ok((c.target(n).to_vec(), c.variance_ratio[n]))
+                            } else {
+                                Ok((vec![1.0 / nk as f64; nk], 1.0))
+                            }
+                        }
+                        None => Ok((vec![1.0 / nk as f64; nk], 1.0)),
+                    };
+                    let kz = ((col[n].1 - g.z0) / g.dz)
+                        .round()
+                        .clamp(0.0, (nz - 1) as f64) as usize;
+                    let pr = facies_volumes.blend(kriged, g.trace_index(i, j) * nz + kz)?;
+                    (mix, mix_var) = facies_mix(&zp.facies_offsets, &pr);
+                }
+                mean_map.values[i * nj + j] = clip_property(p, zp.prop, m + mix);
+                sd_map.values[i * nj + j] = (v + mix_var).sqrt();
             }
         }
         // resample onto the depth grid, trace by trace
@@ -790,6 +913,36 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     cin += 1;
                     let zf = &frame.zones[pos.zone];
                     cell[6] = pos.zone as f32;
+                    // facies probabilities first: the facies trend of the properties uses them
+                    let mut cell_probs: Option<Vec<f64>> = None;
+                    if nk > 0 {
+                        let probs = facies_at(
+                            &fest[pos.zone],
+                            &facies_estimators[pos.zone],
+                            &layers[pos.zone][j],
+                            j,
+                            pos.s / zf.cell_thickness - 0.5,
+                            g.node_xy(i as f64, j as f64),
+                            pos.s,
+                            nk,
+                        );
+                        let cell_index = g.trace_index(i, j) * nz + k;
+                        match facies_volumes.blend(probs, cell_index) {
+                            Ok(pr) => {
+                                for (f, v) in pr.iter().enumerate() {
+                                    cell[7 + f] = *v as f32;
+                                }
+                                cell[7 + nk] =
+                                    most_likely_facies(&pr, &codes).map_or(-1.0, |c| c as f32);
+                                cell_probs = Some(pr);
+                            }
+                            Err(e) => {
+                                if facies_error.is_none() {
+                                    facies_error = Some(e);
+                                }
+                            }
+                        }
+                    }
                     for (q, zp) in zps.iter().enumerate().filter(|(_, zp)| zp.zone == pos.zone) {
                         let col = &layers[pos.zone][j];
                         let e = &est[q][j];
@@ -804,7 +957,10 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         } else {
                             interpolate_layers(col, e, pos.s / zf.cell_thickness - 0.5)
                         };
-                        let mut m = m;
+                        let (mix, mix_var) = cell_probs
+                            .as_deref()
+                            .map_or((0.0, 0.0), |pr| facies_mix(&zp.facies_offsets, pr));
+                        let (mut m, v) = (m + mix, v + mix_var);
                         if zp.prop > 0 {
                             let (lo, hi) = if zp.prop == 1 {
                                 p.bounds.epsilon
@@ -818,67 +974,6 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                         }
                         cell[2 * zp.prop] = m as f32;
                         cell[2 * zp.prop + 1] = v.sqrt() as f32;
-                    }
-                    if nk > 0 {
-                        let probs = facies_at(
-                            &fest[pos.zone],
-                            &facies_estimators[pos.zone],
-                            &layers[pos.zone][j],
-                            j,
-                            pos.s / zf.cell_thickness - 0.5,
-                            g.node_xy(i as f64, j as f64),
-                            pos.s,
-                            nk,
-                        );
-                        let cell_index = g.trace_index(i, j) * nz + k;
-                        // without blending, the volume's probabilities are used alone
-                        let ratio_of = |r: f64| {
-                            if p.volumes.blend_facies_with_wells {
-                                r
-                            } else {
-                                1.0
-                            }
-                        };
-                        let blended = match (probs, label_volume, use_prob_volumes) {
-                            (Ok((pk, ratio)), _, true) => {
-                                let pv: Vec<f64> = prob_volumes
-                                    .iter()
-                                    .map(|v| {
-                                        v.and_then(|v| v.data.get(cell_index))
-                                            .map_or(0.0, |x| f64::from(*x))
-                                    })
-                                    .collect();
-                                volume_probabilities(&pv).and_then(|pv| match pv {
-                                    Some(pv) => blend_with_volume(&pk, ratio_of(ratio), &pv),
-                                    None => Ok(pk),
-                                })
-                            }
-                            (Ok((pk, ratio)), Some(lv), false) => {
-                                let code = lv.data.get(cell_index).copied().unwrap_or(f32::NAN);
-                                label_probabilities(f64::from(code), &codes, 1.0).and_then(|pv| {
-                                    match pv {
-                                        Some(pv) => blend_with_volume(&pk, ratio_of(ratio), &pv),
-                                        None => Ok(pk),
-                                    }
-                                })
-                            }
-                            (Ok((pk, _)), None, false) => Ok(pk),
-                            (Err(e), _, _) => Err(e),
-                        };
-                        match blended {
-                            Ok(pr) => {
-                                for (f, v) in pr.iter().enumerate() {
-                                    cell[7 + f] = *v as f32;
-                                }
-                                cell[7 + nk] =
-                                    most_likely_facies(&pr, &codes).map_or(-1.0, |c| c as f32);
-                            }
-                            Err(e) => {
-                                if facies_error.is_none() {
-                                    facies_error = Some(e);
-                                }
-                            }
-                        }
                     }
                 }
                 if let Some(e) = facies_error {
@@ -965,6 +1060,19 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         zone: metas[6].3.clone(),
         means: [metas[0].3.clone(), metas[2].3.clone(), metas[4].3.clone()],
         probabilities: (0..nk).map(|f| metas[7 + f].3.clone()).collect(),
+        facies_offsets: (0..nzones)
+            .map(|zi| {
+                (0..nk)
+                    .map(|f| {
+                        let mut d = [0.0; 3];
+                        for zp in zps.iter().filter(|zp| zp.zone == zi) {
+                            d[zp.prop] = zp.facies_offsets.get(f).copied().unwrap_or(0.0);
+                        }
+                        d
+                    })
+                    .collect()
+            })
+            .collect(),
     };
     let (bank_rows, masses) = draw_banks(
         g,
@@ -1097,6 +1205,12 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             })
         })
         .collect();
+    let trend_zones: Vec<bool> = (0..nzones)
+        .map(|zi| {
+            zps.iter()
+                .any(|zp| zp.zone == zi && !zp.facies_offsets.is_empty())
+        })
+        .collect();
     let mut zones = Vec::with_capacity(zps.len());
     for (q, zp) in zps.into_iter().enumerate() {
         let mut r = zp.report;
@@ -1129,6 +1243,20 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         },
     );
     manifest.banks = bank_entries;
+    for (zi, mz) in manifest.zones.iter_mut().enumerate() {
+        let offs = bank_volumes.facies_offsets.get(zi);
+        if trend_zones.get(zi).copied().unwrap_or(false) {
+            mz.facies_trend = p
+                .facies
+                .iter()
+                .enumerate()
+                .map(|(f, fd)| {
+                    let d = offs.and_then(|o| o.get(f)).copied().unwrap_or([0.0; 3]);
+                    (fd.name.clone(), d)
+                })
+                .collect();
+        }
+    }
     for (prop, stat, unit, path) in &metas {
         manifest.volumes.push(ManifestVolume {
             property: prop.clone(),
@@ -1156,6 +1284,22 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         cells_outside: cells_out,
         facies: facies_reports,
         banks: bank_reports,
+        facies_label_confusion: facies_volumes.confusion.as_ref().map(|c| {
+            p.facies
+                .iter()
+                .zip(c)
+                .map(|(l, row)| {
+                    (
+                        l.name.clone(),
+                        p.facies
+                            .iter()
+                            .zip(row)
+                            .map(|(f, q)| (f.name.clone(), *q))
+                            .collect(),
+                    )
+                })
+                .collect()
+        }),
         warnings,
     };
     let text = serde_json::to_string_pretty(&report)
@@ -1212,6 +1356,120 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     )?;
     manifest.write(&manifest_path)?;
     Ok(report)
+}
+
+/// The facies volumes of a project and how they combine with the kriged
+/// probabilities of the wells at a cell.
+pub(crate) struct FaciesVolumes<'a> {
+    /// The facies-label volume.
+    pub(crate) label: Option<&'a crate::study::InputVolume>,
+    /// One probability volume per project facies.
+    pub(crate) probabilities: Vec<Option<&'a crate::study::InputVolume>>,
+    /// Whether every facies has a probability volume (they are used, not the labels).
+    pub(crate) use_probabilities: bool,
+    /// `[volumes] blend_facies_with_wells`.
+    pub(crate) blend: bool,
+    /// Project facies codes.
+    pub(crate) codes: Vec<i32>,
+    /// Confusion of the label volume calibrated at the wells
+    /// ([`crate::geostat::indicator::label_confusion`]); `None`: hard labels.
+    pub(crate) confusion: Option<Vec<Vec<f64>>>,
+}
+
+impl FaciesVolumes<'_> {
+    /// The facies volumes of `study`, the label volume's confusion calibrated
+    /// at the blocked samples `blocked` (their facies against the label of the
+    /// nearest grid cell).
+    pub(crate) fn of<'s>(study: &'s Study, blocked: &[&BlockedSample]) -> FaciesVolumes<'s> {
+        let p = &study.project;
+        let probabilities: Vec<Option<&crate::study::InputVolume>> = p
+            .facies
+            .iter()
+            .map(|f| {
+                study
+                    .volumes
+                    .iter()
+                    .find(|v| v.role == format!("facies_probability:{}", f.name))
+            })
+            .collect();
+        let codes: Vec<i32> = p.facies.iter().map(|f| f.code).collect();
+        let label = study.volumes.iter().find(|v| v.role == "facies");
+        let g = &p.grid;
+        let confusion = label
+            .filter(|_| !codes.is_empty() && p.volumes.calibrate_facies_labels)
+            .map(|lv| {
+                let pairs: Vec<(usize, usize)> = blocked
+                    .iter()
+                    .filter_map(|b| {
+                        let f = codes.iter().position(|c| Some(*c) == b.facies)?;
+                        let (fi, fj) = g.xy_to_ij(b.x, b.y);
+                        let (i, j) = (fi.round(), fj.round());
+                        let k = ((b.z - g.z0) / g.dz).round();
+                        if i < 0.0 || j < 0.0 || k < 0.0 {
+                            return None;
+                        }
+                        let (i, j, k) = (i as usize, j as usize, k as usize);
+                        if i >= g.inline_count || j >= g.xline_count || k >= g.z_count {
+                            return None;
+                        }
+                        let v = f64::from(*lv.data.get(g.trace_index(i, j) * g.z_count + k)?);
+                        let r = v.round();
+                        let l = codes.iter().position(|c| f64::from(*c) == r)?;
+                        Some((l, f))
+                    })
+                    .collect();
+                label_confusion(&pairs, codes.len())
+            });
+        FaciesVolumes {
+            label,
+            use_probabilities: probabilities.iter().all(|v| v.is_some())
+                && !probabilities.is_empty(),
+            probabilities,
+            blend: p.volumes.blend_facies_with_wells,
+            codes,
+            confusion,
+        }
+    }
+
+    /// The facies probabilities at grid cell `cell_index` from the kriged
+    /// probabilities of the wells and their variance ratio (`kriged`), blended
+    /// with the volumes ([`blend_with_volume`]); the kriged probabilities alone
+    /// without volumes, the volumes alone when blending is off.
+    pub(crate) fn blend(
+        &self,
+        kriged: Result<(Vec<f64>, f64)>,
+        cell_index: usize,
+    ) -> Result<Vec<f64>> {
+        let (pk, ratio) = kriged?;
+        // without blending, the volume's probabilities are used alone
+        let ratio = if self.blend { ratio } else { 1.0 };
+        if self.use_probabilities {
+            let pv: Vec<f64> = self
+                .probabilities
+                .iter()
+                .map(|v| {
+                    v.and_then(|v| v.data.get(cell_index))
+                        .map_or(0.0, |x| f64::from(*x))
+                })
+                .collect();
+            return match volume_probabilities(&pv)? {
+                Some(pv) => blend_with_volume(&pk, ratio, &pv),
+                None => Ok(pk),
+            };
+        }
+        if let Some(lv) = self.label {
+            let code = f64::from(lv.data.get(cell_index).copied().unwrap_or(f32::NAN));
+            let pv = match &self.confusion {
+                Some(c) => confused_label_probabilities(code, &self.codes, c)?,
+                None => label_probabilities(code, &self.codes, 1.0)?,
+            };
+            return match pv {
+                Some(pv) => blend_with_volume(&pk, ratio, &pv),
+                None => Ok(pk),
+            };
+        }
+        Ok(pk)
+    }
 }
 
 /// Clip an epsilon (`prop` 1) or delta (2) value to the project bounds; Vp0 as is.
@@ -1379,7 +1637,7 @@ pub(crate) fn joint_samples(
 
 /// Indicator-kriging setups of every zone (None for zones without facies data
 /// or projects without facies).
-fn prepare_facies(
+pub(crate) fn prepare_facies(
     study: &Study,
     frame: &StratFrame,
     blocked: &[&BlockedSample],
@@ -1727,5 +1985,38 @@ mod tests {
         let (a, b) = depth_trend(&pts).unwrap();
         assert!((a - 3.0).abs() < 1e-12 && (b - 0.5).abs() < 1e-12);
         assert!(depth_trend(&[(1.0, 2.0), (1.0, 3.0)]).is_none());
+    }
+}
+
+#[cfg(test)]
+mod facies_trend_tests {
+    use super::facies_mix;
+    use crate::geostat::indicator::label_confusion;
+
+    #[test]
+    fn facies_mix_is_the_mixture_mean_and_variance() {
+        // offsets 10 and -20 with probabilities 0.25 / 0.75 (hand computed):
+        // mean 0.25 * 10 - 0.75 * 20 = -12.5; law of total variance over the
+        // facies: 0.25 * 22.5^2 + 0.75 * 7.5^2 = 168.75
+        let (m, v) = facies_mix(&[10.0, -20.0], &[0.25, 0.75]);
+        assert!((m + 12.5).abs() < 1e-12);
+        assert!((v - 168.75).abs() < 1e-9);
+        // a certain facies adds its offset and no variance
+        assert_eq!(facies_mix(&[10.0, -20.0], &[0.0, 1.0]), (-20.0, 0.0));
+        // no offsets (no facies trend), or mismatched lengths: nothing
+        assert_eq!(facies_mix(&[], &[0.5, 0.5]), (0.0, 0.0));
+        assert_eq!(facies_mix(&[1.0], &[0.5, 0.5]), (0.0, 0.0));
+    }
+
+    #[test]
+    fn label_confusion_is_laplace_smoothed_counts() {
+        // label 0 seen 3 times on facies 0 and once on facies 1; label 1 never
+        let pairs = [(0, 0), (0, 0), (0, 0), (0, 1)];
+        let c = label_confusion(&pairs, 2);
+        assert!((c[0][0] - 4.0 / 6.0).abs() < 1e-12);
+        assert!((c[0][1] - 2.0 / 6.0).abs() < 1e-12);
+        assert_eq!(c[1], vec![0.5, 0.5]);
+        // out-of-range pairs are ignored
+        assert_eq!(label_confusion(&[(5, 0)], 2)[0], vec![0.5, 0.5]);
     }
 }

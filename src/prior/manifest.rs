@@ -70,6 +70,11 @@ pub struct ManifestZone {
     pub layering: String,
     /// Stratigraphic cell thickness, m.
     pub cell_thickness: f64,
+    /// The facies trend the mean volumes hold: per facies name, the offsets
+    /// `t_f` of vp0 (m/s), epsilon and delta; the mean at a cell includes
+    /// `sum_f p_f t_f` with `p_f` the facies probability volumes. Empty without
+    /// facies or with `[kriging] facies_trend = false`.
+    pub facies_trend: Vec<(String, [f64; 3])>,
 }
 
 /// A facies in the manifest.
@@ -214,6 +219,7 @@ impl Manifest {
                     base: project.horizons[z.base].name.clone(),
                     layering: z.layering.name().into(),
                     cell_thickness: z.cell_thickness,
+                    facies_trend: Vec::new(),
                 })
                 .collect(),
             facies: project

@@ -42,14 +42,16 @@
 use crate::condition::blocking::BlockedSample;
 use crate::condition::logs::condition_all;
 use crate::error::{Error, Result};
+use crate::geostat::indicator::IndicatorKriging;
+use crate::geostat::kriging::Target;
 use crate::geostat::kriging::{Kriger, Note};
 use crate::geostat::variogram::VariogramModel;
 use crate::geostat::CovarianceModel;
 use crate::io_util::{refuse_overwrite_input, write_atomic};
 use crate::prior::banks::zone_pools;
 use crate::prior::build::{
-    joint_samples, loo_means, neighbourhood_params, prepare_with_models, secondary_at, value_of,
-    well_decluster_weights, PROPERTIES,
+    facies_mix, joint_samples, loo_means, neighbourhood_params, prepare_facies,
+    prepare_with_models, secondary_at, value_of, well_decluster_weights, FaciesVolumes, PROPERTIES,
 };
 use crate::prior::variograms::VariogramRecord;
 use crate::prior::volume_sampling::sample_volume;
@@ -266,6 +268,14 @@ fn hold_out(study: &Study, wi: usize, models: Option<&[VariogramModel]>) -> Resu
         .volumes
         .iter()
         .find(|v| v.role == "background_vp0");
+    // facies probabilities at the held-out samples from the remaining wells
+    // (indicator kriging, blended with the facies volumes as the build does)
+    let facies_setups = prepare_facies(&loo_study, &frame, &data, &zps, &mut prep_warnings)?;
+    let facies_estimators: Vec<Option<IndicatorKriging<'_>>> = facies_setups
+        .iter()
+        .map(|s| s.as_ref().map(|s| s.estimator(params)).transpose())
+        .collect::<Result<_>>()?;
+    let facies_volumes = FaciesVolumes::of(&loo_study, &data);
     let mut pools = Vec::new();
     for zi in 0..p.zones.len() {
         let joint = joint_samples(&data, zi, &zps, &loo, &codes);
@@ -288,19 +298,39 @@ fn hold_out(study: &Study, wi: usize, models: Option<&[VariogramModel]>) -> Resu
             mean: [None; 3],
             sd: [None; 3],
         };
+        let s_centre = frame.zones[h.zone].layer_centre(h.layer);
+        let probs: Option<Vec<f64>> = if nk > 0 {
+            let kriged = match &facies_estimators[h.zone] {
+                Some(fe) => fe.estimate(&Target::at([h.x, h.y, s_centre])),
+                None => Ok((vec![1.0 / nk as f64; nk], 1.0)),
+            };
+            let (fi, fj) = g.xy_to_ij(h.x, h.y);
+            let i = fi.round().clamp(0.0, (g.inline_count - 1) as f64) as usize;
+            let j = fj.round().clamp(0.0, (g.xline_count - 1) as f64) as usize;
+            let k = ((h.z - g.z0) / g.dz)
+                .round()
+                .clamp(0.0, (g.z_count - 1) as f64) as usize;
+            Some(facies_volumes.blend(kriged, g.trace_index(i, j) * g.z_count + k)?)
+        } else {
+            None
+        };
         for (q, zp) in zps.iter().enumerate().filter(|(_, zp)| zp.zone == h.zone) {
             let pi = zp.prop;
             let Some(obs) = value_of(h, pi) else { continue };
-            let s_centre = frame.zones[h.zone].layer_centre(h.layer);
             let pos = [h.x, h.y, s_centre];
             let sec = secondary_at(&loo_study, zp.drift, h.x, h.y, h.z);
             let t = zp.target_with(pos, sec);
-            let (mut m, v) = match krigers[q].estimate(&t) {
+            let (m0, v0) = match krigers[q].estimate(&t) {
                 Ok(e) if e.note != Note::NoNeighbours && e.value.is_finite() => {
                     (e.value, e.variance.max(0.0))
                 }
                 _ => (t.trend.unwrap_or(zp.mean), zp.model.sill()),
             };
+            // the facies trend at the sample, from the facies probabilities there
+            let (mix, mix_var) = probs
+                .as_deref()
+                .map_or((0.0, 0.0), |pr| facies_mix(&zp.facies_offsets, pr));
+            let (mut m, v) = (m0 + mix, v0 + mix_var);
             if pi == 1 {
                 m = m.clamp(p.bounds.epsilon.0, p.bounds.epsilon.1);
             } else if pi == 2 {
@@ -310,19 +340,53 @@ fn hold_out(study: &Study, wi: usize, models: Option<&[VariogramModel]>) -> Resu
             ps.mean[pi] = Some(m);
             ps.sd[pi] = Some(sd);
             // prior: kriged mean + facies offset + residual pool
+            // with the facies trend: the mixture over the sample's facies
+            // probabilities of (trend without facies + facies offset + that
+            // facies' residual pool); else the sample's facies pool (or the zone's)
             let (by_facies, whole) = &pools[h.zone];
-            let pool = match h.facies.and_then(|c| codes.iter().position(|x| *x == c)) {
-                Some(f) if nk > 0 => by_facies.iter().find(|r| r.facies == Some(f)),
-                _ => whole.first(),
-            };
-            let (ens, w): (Vec<f64>, Vec<f64>) = match pool {
-                Some(pool) if !pool.rows.is_empty() => pool
-                    .rows
-                    .iter()
-                    .map(|(r, wt, _)| (m + pool.offset[pi] + r[pi], *wt))
-                    .unzip(),
-                _ => (vec![m], vec![1.0]),
-            };
+            let mut ens = Vec::new();
+            let mut w = Vec::new();
+            match probs.as_deref() {
+                Some(pr) if !zp.facies_offsets.is_empty() => {
+                    for (f, pf) in pr.iter().enumerate() {
+                        if *pf <= 0.0 {
+                            continue;
+                        }
+                        let pool = by_facies
+                            .iter()
+                            .find(|r| r.facies == Some(f))
+                            .filter(|r| !r.rows.is_empty())
+                            .or(whole.first());
+                        if let Some(pool) = pool {
+                            let off = if pool.facies == Some(f) {
+                                pool.offset[pi]
+                            } else {
+                                zp.facies_offsets.get(f).copied().unwrap_or(0.0)
+                            };
+                            for (r, wt, _) in &pool.rows {
+                                ens.push(m0 + off + r[pi]);
+                                w.push(pf * wt);
+                            }
+                        }
+                    }
+                }
+                _ => {
+                    let pool = match h.facies.and_then(|c| codes.iter().position(|x| *x == c)) {
+                        Some(f) if nk > 0 => by_facies.iter().find(|r| r.facies == Some(f)),
+                        _ => whole.first(),
+                    };
+                    if let Some(pool) = pool {
+                        for (r, wt, _) in &pool.rows {
+                            ens.push(m + pool.offset[pi] + r[pi]);
+                            w.push(*wt);
+                        }
+                    }
+                }
+            }
+            if ens.is_empty() {
+                ens.push(m);
+                w.push(1.0);
+            }
             preds.push(Pred {
                 well: wi,
                 zone: h.zone,
