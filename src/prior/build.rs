@@ -1339,6 +1339,11 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     let records: Vec<VariogramRecord> = report.zones.iter().map(|z| z.variogram.clone()).collect();
     let map_figures: Vec<MapFigure> = maps.into_iter().flat_map(|(m, s)| [m, s]).collect();
     let map_wells = crate::report::data::well_positions_by_zone(&study, &blocked);
+    let facies_trend_rows: Vec<(String, Vec<(String, [f64; 3])>)> = manifest
+        .zones
+        .iter()
+        .map(|z| (z.name.clone(), z.facies_trend.clone()))
+        .collect();
     crate::report::write(
         &report_path,
         &ReportInputs {
@@ -1349,6 +1354,8 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
             map_wells: &map_wells,
             section: section.as_ref(),
             crossplots: &crossplots,
+            facies_trend: &facies_trend_rows,
+            label_confusion: report.facies_label_confusion.as_deref(),
             validation: None,
             files: &files,
             warnings: &report.warnings,

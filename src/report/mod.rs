@@ -77,6 +77,11 @@ pub struct ReportInputs<'a> {
     pub crossplots: &'a [CrossPlotRegion],
     /// Leave-one-well-out results (`validate`).
     pub validation: Option<ValidationContent<'a>>,
+    /// The facies trend of the mean volumes (`build`): per zone name, the
+    /// offsets `t_f` (vp0 m/s, epsilon, delta) per facies name.
+    pub facies_trend: &'a [(String, Vec<(String, [f64; 3])>)],
+    /// The facies-label volume's confusion calibrated at the wells (`build`).
+    pub label_confusion: Option<&'a [crate::prior::build::LabelConfusionRow]>,
     /// Files written by the run (kind, path relative to the report).
     pub files: &'a [(String, String)],
     /// Warnings of the run.
@@ -188,6 +193,7 @@ pub fn render(inp: &ReportInputs<'_>) -> Result<String> {
     h.push_str("</ul></nav>\n");
 
     summary(&mut h, inp.study);
+    facies_tables(&mut h, inp);
     ties(&mut h, inp.study);
     variograms(&mut h, inp.variograms)?;
     match inp.kind {
@@ -355,6 +361,43 @@ fn summary(h: &mut String, study: &Study) {
                 escape(&v.path.display().to_string()),
                 escape(&v.unit)
             );
+        }
+        h.push_str("</table>\n");
+    }
+}
+
+fn facies_tables(h: &mut String, inp: &ReportInputs<'_>) {
+    if inp.facies_trend.iter().any(|(_, v)| !v.is_empty()) {
+        h.push_str("<h3>Facies trend</h3>\n<p>Offsets t_f of each facies (declustered facies mean minus zone mean of the wells' blocked samples): the mean volumes hold sum_f p_f t_f, and their standard deviations the spread of t_f over the facies probabilities.</p>\n<table>\n<tr><th class=\"t\">zone</th><th class=\"t\">facies</th><th>Vp0 (m/s)</th><th>epsilon (1)</th><th>delta (1)</th></tr>\n");
+        for (zone, rows) in inp.facies_trend {
+            for (facies, t) in rows {
+                let _ = writeln!(
+                    h,
+                    "<tr><td class=\"t\">{}</td><td class=\"t\">{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
+                    escape(zone),
+                    escape(facies),
+                    f(t[0], 1),
+                    f(t[1], 4),
+                    f(t[2], 4)
+                );
+            }
+        }
+        h.push_str("</table>\n");
+    }
+    if let Some(c) = inp.label_confusion {
+        h.push_str("<h3>Facies labels, calibrated at the wells</h3>\n<p>Probability of each facies (columns) in cells of each label of the facies-label volume (rows), from the wells' blocked facies against the label of the nearest cell, with add-one smoothing.</p>\n<table>\n<tr><th class=\"t\">label</th>");
+        if let Some((_, first)) = c.first() {
+            for (name, _) in first {
+                let _ = write!(h, "<th>{}</th>", escape(name));
+            }
+        }
+        h.push_str("</tr>\n");
+        for (label, row) in c {
+            let _ = write!(h, "<tr><td class=\"t\">{}</td>", escape(label));
+            for (_, q) in row {
+                let _ = write!(h, "<td>{}</td>", f(*q, 3));
+            }
+            h.push_str("</tr>\n");
         }
         h.push_str("</table>\n");
     }

@@ -214,6 +214,8 @@ fn validate_inner(project: &Path, opts: &ValidateOptions) -> Result<ValidationRe
             map_wells: &BTreeMap::new(),
             section: None,
             crossplots: &[],
+            facies_trend: &[],
+            label_confusion: None,
             validation: Some(ValidationContent {
                 rows: &report.rows,
                 predictions: &report.predictions,
