@@ -1339,7 +1339,7 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
     let records: Vec<VariogramRecord> = report.zones.iter().map(|z| z.variogram.clone()).collect();
     let map_figures: Vec<MapFigure> = maps.into_iter().flat_map(|(m, s)| [m, s]).collect();
     let map_wells = crate::report::data::well_positions_by_zone(&study, &blocked);
-    let facies_trend_rows: Vec<(String, Vec<(String, [f64; 3])>)> = manifest
+    let facies_trend_rows: Vec<crate::report::ZoneFaciesTrend> = manifest
         .zones
         .iter()
         .map(|z| (z.name.clone(), z.facies_trend.clone()))

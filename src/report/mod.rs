@@ -38,6 +38,10 @@ use data::{CrossPlotRegion, MapFigure, SectionFigure};
 use std::fmt::Write as _;
 use std::path::Path;
 
+/// The facies trend of one zone: its name and, per facies name, the offsets
+/// `t_f` of vp0 (m/s), epsilon and delta.
+pub type ZoneFaciesTrend = (String, Vec<(String, [f64; 3])>);
+
 /// Which command wrote the report.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum ReportKind {
@@ -79,7 +83,7 @@ pub struct ReportInputs<'a> {
     pub validation: Option<ValidationContent<'a>>,
     /// The facies trend of the mean volumes (`build`): per zone name, the
     /// offsets `t_f` (vp0 m/s, epsilon, delta) per facies name.
-    pub facies_trend: &'a [(String, Vec<(String, [f64; 3])>)],
+    pub facies_trend: &'a [ZoneFaciesTrend],
     /// The facies-label volume's confusion calibrated at the wells (`build`).
     pub label_confusion: Option<&'a [crate::prior::build::LabelConfusionRow]>,
     /// Files written by the run (kind, path relative to the report).
