@@ -647,18 +647,6 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
         .iter()
         .map(|s| s.as_ref().map(|s| s.estimator(params)).transpose())
         .collect::<Result<_>>()?;
-    let label_volume = study.volumes.iter().find(|v| v.role == "facies");
-    let prob_volumes: Vec<Option<&crate::study::InputVolume>> = p
-        .facies
-        .iter()
-        .map(|f| {
-            study
-                .volumes
-                .iter()
-                .find(|v| v.role == format!("facies_probability:{}", f.name))
-        })
-        .collect();
-    let use_prob_volumes = prob_volumes.iter().all(|v| v.is_some()) && !prob_volumes.is_empty();
     let facies_volumes = FaciesVolumes::of(&study, &blocked);
     let nk = if facies_setups.iter().any(|s| s.is_some()) {
         codes.len()
@@ -1188,8 +1176,8 @@ fn build_inner(project_path: &Path, opts: &BuildOptions) -> Result<BuildReport> 
                     .map(|(f, q)| (f.name.clone(), *q))
                     .collect(),
                 source: match (
-                    use_prob_volumes,
-                    label_volume.is_some(),
+                    facies_volumes.use_probabilities,
+                    facies_volumes.label.is_some(),
                     p.volumes.blend_facies_with_wells,
                 ) {
                     (true, _, true) => {

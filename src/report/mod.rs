@@ -199,17 +199,17 @@ pub fn render(inp: &ReportInputs<'_>) -> Result<String> {
     summary(&mut h, inp.study);
     facies_tables(&mut h, inp);
     ties(&mut h, inp.study);
-    variograms(&mut h, inp.variograms)?;
+    variograms(&mut h, inp.variograms);
     match inp.kind {
         ReportKind::Build => {
-            maps(&mut h, inp)?;
-            section(&mut h, inp)?;
-            crossplots(&mut h, inp.crossplots)?;
+            maps(&mut h, inp);
+            section(&mut h, inp);
+            crossplots(&mut h, inp.crossplots);
         }
         ReportKind::Validate => {
             if let Some(v) = inp.validation {
                 validation_table(&mut h, v);
-                tracks(&mut h, v)?;
+                tracks(&mut h, v);
             }
         }
     }
@@ -234,8 +234,23 @@ fn caution(h: &mut String) {
     );
 }
 
-/// A figure with an id and a caption; `svg` is plotters' output.
-fn figure(h: &mut String, id: &str, svg: &str, caption: &str) {
+/// A figure with an id and a caption; `svg` is plotters' output. A figure that
+/// cannot be drawn (no value on a map's layer, say) becomes a paragraph saying
+/// why, so the report of a run is never lost to one figure.
+fn figure(h: &mut String, id: &str, svg: Result<String>, caption: &str) {
+    let svg = match svg {
+        Ok(svg) => svg,
+        Err(e) => {
+            let _ = writeln!(
+                h,
+                "<p class=\"nofig\">Not drawn: {} ({})</p>",
+                escape(caption),
+                escape(&e.to_string())
+            );
+            return;
+        }
+    };
+    let svg = svg.as_str();
     let _ = writeln!(h, "<figure class=\"fig\" id=\"{}\">", escape(id));
     // plotters writes a complete <svg> element; drop an XML declaration if any
     let body = match svg.find("<svg") {
@@ -458,7 +473,7 @@ fn unit_squared(prop: &str) -> &'static str {
     }
 }
 
-fn variograms(h: &mut String, records: &[VariogramRecord]) -> Result<()> {
+fn variograms(h: &mut String, records: &[VariogramRecord]) {
     h.push_str("<h2 id=\"variograms\">Variograms</h2>\n<p>Experimental variograms of the kriging residuals in stratigraphic coordinates (circle area grows with the pair count, hollow below the minimum pair count, count written above) and the model used. Vertical: lag along the stratigraphic coordinate s; horizontal: lag in map distance.</p>\n");
     for r in records {
         let _ = writeln!(
@@ -492,19 +507,19 @@ fn variograms(h: &mut String, records: &[VariogramRecord]) -> Result<()> {
                     LagDirection::Omnidirectional
                 };
                 (
-                    plot_model_svg(&r.model, d, &opts)?,
+                    plot_model_svg(&r.model, d, &opts),
                     "model only: no experimental pairs in this direction",
                 )
             } else {
                 (
-                    plot_svg(&ex, Some(&r.model), &opts)?,
+                    plot_svg(&ex, Some(&r.model), &opts),
                     "experimental and model",
                 )
             };
             figure(
                 h,
                 &figure_id(&["variogram", &r.zone, &r.property, dir]),
-                &svg,
+                svg,
                 &format!(
                     "{} {}, {dir} variogram ({what}); lag in m, semivariance in {}.",
                     r.zone,
@@ -518,10 +533,9 @@ fn variograms(h: &mut String, records: &[VariogramRecord]) -> Result<()> {
             let _ = writeln!(h, "<p>{}</p>", escape(w));
         }
     }
-    Ok(())
 }
 
-fn maps(h: &mut String, inp: &ReportInputs<'_>) -> Result<()> {
+fn maps(h: &mut String, inp: &ReportInputs<'_>) {
     let g = &inp.study.project.grid;
     h.push_str("<h2 id=\"maps\">Maps on the zone mid-layers</h2>\n<p>Prior mean and standard deviation on the middle stratigraphic layer of each zone, in stepped colours of one perceptually ordered scale (dark: low, light: high; readable in greyscale). White: the zone is absent. Triangles: where each well crosses the zone.</p>\n");
     if inp.maps.is_empty() {
@@ -536,11 +550,11 @@ fn maps(h: &mut String, inp: &ReportInputs<'_>) -> Result<()> {
                 m.zone, m.property, m.statistic, m.layer
             );
             let wells = inp.map_wells.get(&m.zone_index).unwrap_or(&none);
-            let svg = figures::map_svg(g, m, wells, &title)?;
+            let svg = figures::map_svg(g, m, wells, &title);
             figure(
                 h,
                 &figure_id(&["map", &m.zone, &m.property, &m.statistic]),
-                &svg,
+                svg,
                 &format!(
                     "{} on layer {} of zone {} (easting and northing in m).",
                     m.unit_label(),
@@ -551,10 +565,9 @@ fn maps(h: &mut String, inp: &ReportInputs<'_>) -> Result<()> {
         }
         h.push_str("</div>\n");
     }
-    Ok(())
 }
 
-fn section(h: &mut String, inp: &ReportInputs<'_>) -> Result<()> {
+fn section(h: &mut String, inp: &ReportInputs<'_>) {
     h.push_str("<h2 id=\"section\">Inline section</h2>\n");
     match inp.section {
         Some(s) => {
@@ -562,11 +575,11 @@ fn section(h: &mut String, inp: &ReportInputs<'_>) -> Result<()> {
                 &inp.study.project.grid,
                 s,
                 &format!("Vp0 mean, inline {}", s.inline),
-            )?;
+            );
             figure(
                 h,
                 &figure_id(&["section", "inline", &s.inline.to_string()]),
-                &svg,
+                svg,
                 &format!(
                     "Vp0 prior mean (m/s) along inline {} with the horizons (lines); white: outside every zone.",
                     s.inline
@@ -575,10 +588,9 @@ fn section(h: &mut String, inp: &ReportInputs<'_>) -> Result<()> {
         }
         None => h.push_str("<p>No section.</p>\n"),
     }
-    Ok(())
 }
 
-fn crossplots(h: &mut String, regions: &[CrossPlotRegion]) -> Result<()> {
+fn crossplots(h: &mut String, regions: &[CrossPlotRegion]) {
     h.push_str("<h2 id=\"crossplots\">Bank cross-plots</h2>\n<p>Each region's sample bank (prior mean at the drawn cell plus a residual from the region's pool) against the region's own blocked well samples: the bank should cover the wells' joint spread of Vp0, epsilon and delta.</p>\n");
     if regions.is_empty() {
         h.push_str("<p>No bank region.</p>\n");
@@ -592,18 +604,17 @@ fn crossplots(h: &mut String, regions: &[CrossPlotRegion]) -> Result<()> {
             );
             continue;
         }
-        let svg = figures::crossplot_svg(r)?;
+        let svg = figures::crossplot_svg(r);
         figure(
             h,
             &figure_id(&["crossplot", &r.region]),
-            &svg,
+            svg,
             &format!(
                 "{}: Vp0 (m/s), epsilon and delta (dimensionless).",
                 r.region
             ),
         );
     }
-    Ok(())
 }
 
 fn validation_table(h: &mut String, v: ValidationContent<'_>) {
@@ -699,25 +710,24 @@ fn validation_table(h: &mut String, v: ValidationContent<'_>) {
     h.push_str("</table>\n</details>\n");
 }
 
-fn tracks(h: &mut String, v: ValidationContent<'_>) -> Result<()> {
+fn tracks(h: &mut String, v: ValidationContent<'_>) {
     h.push_str("<h2 id=\"tracks\">Log tracks of the held-out wells</h2>\n<p>Blocked well values (dark line), the leave-one-out prior mean (teal line) and its +/- 1 sd band (light teal), against depth TVDSS (m). Grey lines: the zone boundaries along the well in the frame tied without its tops.</p>\n");
     for p in v.predictions {
         if p.samples.is_empty() {
             let _ = writeln!(h, "<p>{}: no blocked sample to draw.</p>", escape(&p.well));
             continue;
         }
-        let svg = figures::log_tracks_svg(p)?;
+        let svg = figures::log_tracks_svg(p);
         figure(
             h,
             &figure_id(&["tracks", &p.well]),
-            &svg,
+            svg,
             &format!(
                 "{}: Vp0 (m/s), epsilon and delta (dimensionless) against depth TVDSS (m).",
                 p.well
             ),
         );
     }
-    Ok(())
 }
 
 fn files(h: &mut String, inp: &ReportInputs<'_>) {
@@ -742,5 +752,40 @@ fn files(h: &mut String, inp: &ReportInputs<'_>) {
             let _ = writeln!(h, "<li>{}</li>", escape(w));
         }
         h.push_str("</ul>\n");
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_figure_that_cannot_be_drawn_becomes_a_note() {
+        let mut h = String::new();
+        figure(
+            &mut h,
+            "map-a-vp0-mean",
+            Err(crate::Error::inconsistent("no value to draw")),
+            "Vp0 <mean>",
+        );
+        assert!(!h.contains("<figure"));
+        assert!(h.contains("Not drawn: Vp0 &lt;mean&gt;") && h.contains("no value to draw"));
+        let mut h = String::new();
+        figure(
+            &mut h,
+            "f",
+            Ok("<?xml version=\"1.0\"?><svg></svg>".into()),
+            "c",
+        );
+        assert!(h.starts_with("<figure class=\"fig\" id=\"f\">\n<svg></svg>"));
+    }
+
+    #[test]
+    fn figure_ids_and_escaping() {
+        assert_eq!(figure_id(&["map", "Zone A", "vp0"]), "map-zone_a-vp0");
+        assert_eq!(
+            escape("a<b & \"c\" 'd'"),
+            "a&lt;b &amp; &quot;c&quot; &#39;d&#39;"
+        );
     }
 }
