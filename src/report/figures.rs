@@ -62,6 +62,20 @@ fn block_mean(values: &[f64], nb: usize, a: (usize, usize), b: (usize, usize)) -
     }
 }
 
+/// Runs of equal steps along a row of blocks: `(first, last, step)` with
+/// `first..=last` the blocks of one colour; blocks without a value end a run.
+fn runs(row: &[Option<usize>]) -> Vec<(usize, usize, usize)> {
+    let mut out: Vec<(usize, usize, usize)> = Vec::new();
+    for (b, k) in row.iter().enumerate() {
+        match (out.last_mut(), k) {
+            (Some(r), Some(k)) if r.1 + 1 == b && r.2 == *k => r.1 = b,
+            (_, Some(k)) => out.push((b, b, *k)),
+            (_, None) => {}
+        }
+    }
+    out
+}
+
 /// Draw a vertical stepped colour bar with value labels into `area`.
 fn colour_bar<DB: DrawingBackend>(
     area: &DrawingArea<DB, Shift>,
@@ -198,43 +212,24 @@ pub fn map_svg(
         for a in 0..mi {
             let i0 = a * bi;
             let i1 = ((a + 1) * bi).min(ni);
-            let mut run: Option<(usize, usize, usize)> = None; // (first block, last block, step)
-            let mut flush = |run: Option<(usize, usize, usize)>| {
-                if let Some((b0, b1, k)) = run {
-                    let j0 = b0 * bj;
-                    let j1 = ((b1 + 1) * bj).min(nj);
-                    let pts = vec![
-                        grid.node_xy(i0 as f64 - 0.5, j0 as f64 - 0.5),
-                        grid.node_xy(i0 as f64 - 0.5, j1 as f64 - 0.5),
-                        grid.node_xy(i1 as f64 - 0.5, j1 as f64 - 0.5),
-                        grid.node_xy(i1 as f64 - 0.5, j0 as f64 - 0.5),
-                    ];
-                    let c = steps.colour(&REPORT_SCALE, k);
-                    polys.push((pts, RGBColor(c[0], c[1], c[2])));
-                }
-            };
-            for b in 0..mj {
-                let j0 = b * bj;
-                let j1 = ((b + 1) * bj).min(nj);
-                let v = block_mean(&map.values, nj, (i0, i1), (j0, j1));
-                let k = if v.is_finite() {
-                    Some(steps.step(v))
-                } else {
-                    None
-                };
-                run = match (run, k) {
-                    (Some((b0, _, kk)), Some(k)) if kk == k => Some((b0, b, k)),
-                    (r, Some(k)) => {
-                        flush(r);
-                        Some((b, b, k))
-                    }
-                    (r, None) => {
-                        flush(r);
-                        None
-                    }
-                };
+            let row: Vec<Option<usize>> = (0..mj)
+                .map(|b| {
+                    let v = block_mean(&map.values, nj, (i0, i1), (b * bj, ((b + 1) * bj).min(nj)));
+                    v.is_finite().then(|| steps.step(v))
+                })
+                .collect();
+            for (b0, b1, k) in runs(&row) {
+                let j0 = b0 * bj;
+                let j1 = ((b1 + 1) * bj).min(nj);
+                let pts = vec![
+                    grid.node_xy(i0 as f64 - 0.5, j0 as f64 - 0.5),
+                    grid.node_xy(i0 as f64 - 0.5, j1 as f64 - 0.5),
+                    grid.node_xy(i1 as f64 - 0.5, j1 as f64 - 0.5),
+                    grid.node_xy(i1 as f64 - 0.5, j0 as f64 - 0.5),
+                ];
+                let c = steps.colour(&REPORT_SCALE, k);
+                polys.push((pts, RGBColor(c[0], c[1], c[2])));
             }
-            flush(run);
         }
         chart
             .draw_series(
@@ -333,50 +328,26 @@ pub fn section_svg(grid: &SurveyGrid, sec: &SectionFigure, title: &str) -> Resul
         let mut rects = Vec::new();
         let mut k = k0;
         while k <= k1 {
-            let ka = k;
-            let kb = (k + bk).min(k1 + 1);
-            let mut run: Option<(usize, usize, usize)> = None;
-            let mut flush = |run: Option<(usize, usize, usize)>| {
-                if let Some((j0, j1, s)) = run {
-                    let c = steps.colour(&REPORT_SCALE, s);
-                    rects.push((
-                        [
-                            ((j0 as f64 - 0.5) * dx, -(grid.z_at(ka) - 0.5 * grid.dz)),
-                            ((j1 as f64 - 0.5) * dx, -(grid.z_at(kb - 1) + 0.5 * grid.dz)),
-                        ],
-                        RGBColor(c[0], c[1], c[2]),
-                    ));
-                }
-            };
-            let mut j = 0;
-            while j < nj {
-                let jb = (j + bj).min(nj);
-                // values are stored trace-major: index j * nz + k
-                let (mut s, mut n) = (0.0, 0usize);
-                for jj in j..jb {
-                    for kk in ka..kb {
-                        let v = sec.values[jj * nz + kk];
-                        if v.is_finite() {
-                            s += v;
-                            n += 1;
-                        }
-                    }
-                }
-                let step = (n > 0).then(|| steps.step(s / n as f64));
-                run = match (run, step) {
-                    (Some((j0, _, st)), Some(x)) if st == x => Some((j0, jb, x)),
-                    (r, Some(x)) => {
-                        flush(r);
-                        Some((j, jb, x))
-                    }
-                    (r, None) => {
-                        flush(r);
-                        None
-                    }
-                };
-                j = jb;
+            let (ka, kb) = (k, (k + bk).min(k1 + 1));
+            // values are stored trace-major: index j * nz + k
+            let row: Vec<Option<usize>> = (0..nj.div_ceil(bj))
+                .map(|b| {
+                    let v = block_mean(&sec.values, nz, (b * bj, ((b + 1) * bj).min(nj)), (ka, kb));
+                    v.is_finite().then(|| steps.step(v))
+                })
+                .collect();
+            for (b0, b1, st) in runs(&row) {
+                let j0 = b0 * bj;
+                let j1 = ((b1 + 1) * bj).min(nj);
+                let c = steps.colour(&REPORT_SCALE, st);
+                rects.push((
+                    [
+                        ((j0 as f64 - 0.5) * dx, -(grid.z_at(ka) - 0.5 * grid.dz)),
+                        ((j1 as f64 - 0.5) * dx, -(grid.z_at(kb - 1) + 0.5 * grid.dz)),
+                    ],
+                    RGBColor(c[0], c[1], c[2]),
+                ));
             }
-            flush(run);
             k = kb;
         }
         chart
@@ -656,4 +627,16 @@ pub fn crossplot_svg(region: &CrossPlotRegion) -> Result<String> {
         root.present().map_err(fig_err)?;
     }
     Ok(svg)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::runs;
+
+    #[test]
+    fn runs_merge_equal_neighbours_and_break_at_gaps() {
+        let row = [Some(1), Some(1), None, Some(1), Some(2), Some(2), Some(1)];
+        assert_eq!(runs(&row), vec![(0, 1, 1), (3, 3, 1), (4, 5, 2), (6, 6, 1)]);
+        assert!(runs(&[None, None]).is_empty());
+    }
 }
