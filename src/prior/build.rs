@@ -1468,7 +1468,7 @@ impl FaciesVolumes<'_> {
 }
 
 /// Clip an epsilon (`prop` 1) or delta (2) value to the project bounds; Vp0 as is.
-fn clip_property(p: &crate::project::Project, prop: usize, m: f64) -> f64 {
+pub(crate) fn clip_property(p: &crate::project::Project, prop: usize, m: f64) -> f64 {
     match prop {
         1 => m.clamp(p.bounds.epsilon.0, p.bounds.epsilon.1),
         2 => m.clamp(p.bounds.delta.0, p.bounds.delta.1),
@@ -1529,7 +1529,8 @@ fn section_of(
 /// sample's well and solved at the sample (cross-validation by wells, common
 /// practice). Where no other well is in reach the zone mean (or the trend of
 /// simple kriging with a trend) stands in; epsilon and delta are clipped to the
-/// project bounds as the mean volumes are.
+/// project bounds as the mean volumes are, except with the facies trend, whose
+/// kriged values (`v - t_f`) are not the property itself.
 pub(crate) fn loo_means(
     zp: &ZoneProperty,
     params: NeighbourhoodParams,
@@ -1543,10 +1544,14 @@ pub(crate) fn loo_means(
         KrigingMethod::SimpleTrend => s.trend.unwrap_or(zp.mean),
         _ => zp.mean,
     };
-    let clip = |m: f64| match zp.prop {
-        1 => m.clamp(p.bounds.epsilon.0, p.bounds.epsilon.1),
-        2 => m.clamp(p.bounds.delta.0, p.bounds.delta.1),
-        _ => m,
+    // with the facies trend the kriged values are `v - t_f`, not the property,
+    // so the bounds do not apply to them
+    let clip = |m: f64| {
+        if zp.facies_offsets.is_empty() {
+            clip_property(p, zp.prop, m)
+        } else {
+            m
+        }
     };
     type WellMeans = Vec<((u32, i32), f64)>;
     let per_well: Vec<Result<WellMeans>> = wells

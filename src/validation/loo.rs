@@ -50,7 +50,7 @@ use crate::geostat::CovarianceModel;
 use crate::io_util::{refuse_overwrite_input, write_atomic};
 use crate::prior::banks::zone_pools;
 use crate::prior::build::{
-    facies_mix, joint_samples, loo_means, neighbourhood_params, prepare_facies,
+    clip_property, facies_mix, joint_samples, loo_means, neighbourhood_params, prepare_facies,
     prepare_with_models, secondary_at, value_of, well_decluster_weights, FaciesVolumes, PROPERTIES,
 };
 use crate::prior::variograms::VariogramRecord;
@@ -332,12 +332,8 @@ fn hold_out(study: &Study, wi: usize, models: Option<&[VariogramModel]>) -> Resu
             let (mix, mix_var) = probs
                 .as_deref()
                 .map_or((0.0, 0.0), |pr| facies_mix(&zp.facies_offsets, pr));
-            let (mut m, v) = (m0 + mix, v0 + mix_var);
-            if pi == 1 {
-                m = m.clamp(p.bounds.epsilon.0, p.bounds.epsilon.1);
-            } else if pi == 2 {
-                m = m.clamp(p.bounds.delta.0, p.bounds.delta.1);
-            }
+            let m = clip_property(p, pi, m0 + mix);
+            let v = v0 + mix_var;
             let sd = v.sqrt();
             ps.mean[pi] = Some(m);
             ps.sd[pi] = Some(sd);
